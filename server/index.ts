@@ -1,0 +1,58 @@
+import http from "node:http";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { loadConfig, type Config } from "./config.ts";
+import { createKnex, migrateLatest } from "./db.ts";
+import { createApp } from "./app.ts";
+import { createMailer } from "./mail/mailer.ts";
+import { startMailFake } from "./mail/fake-smtp.ts";
+import type { AppContext } from "./context.ts";
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
+
+export interface RunningServer {
+  port: number;
+  ctx: AppContext;
+  close(): Promise<void>;
+}
+
+/** Start the HTTP server (API, static client) and, in development, the local mail fake. */
+export async function startServer(config: Config = loadConfig()): Promise<RunningServer> {
+  const db = createKnex(config.databaseUrl);
+  await migrateLatest(db);
+  const fake = config.mailFake ? await startMailFake({ db, port: config.smtp.port, host: "127.0.0.1" }) : null;
+  if (fake) config.smtp.port = fake.port;
+  const ctx: AppContext = { db, config, mailer: createMailer(config), services: {} };
+  const app = createApp(ctx, { staticDir: path.join(ROOT, "dist") });
+  const server = http.createServer(app);
+  const hooks = (ctx.services.onHttpServer as ((s: http.Server) => Promise<void> | void)[] | undefined) ?? [];
+  for (const hook of hooks) await hook(server);
+  await new Promise<void>((resolve, reject) => {
+    server.once("error", reject);
+    server.listen(config.port, config.host, () => resolve());
+  });
+  const port = (server.address() as { port: number }).port;
+  return {
+    port,
+    ctx,
+    async close() {
+      const closers = (ctx.services.onClose as (() => Promise<void>)[] | undefined) ?? [];
+      for (const c of closers) await c();
+      await new Promise<void>((r) => server.close(() => r()));
+      server.closeAllConnections?.();
+      await fake?.close();
+      await db.destroy();
+    },
+  };
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === path.resolve(process.argv[1])) {
+  const running = await startServer();
+  console.log(`barhound server listening on http://localhost:${running.port}`);
+  const stop = async () => {
+    await running.close().catch(() => {});
+    process.exit(0);
+  };
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+}
