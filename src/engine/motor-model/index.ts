@@ -1,0 +1,22 @@
+// Motor model: the per-phase equivalent circuit of a three-phase induction motor and what it predicts.
+// Pure TypeScript (no server, database or file-system imports) so the worker, the API and the browser share it.
+
+export type {
+  CircuitParams,
+  Connection,
+  DesignLetter,
+  ModelFlag,
+  MotorModelInput,
+  OperatingPoint,
+  ParamName,
+  ParamSource,
+  ParamSources,
+} from "./types.ts";
+export { MotorModelError } from "./types.ts";
+export { evaluateAtSlip, phaseVoltage } from "./circuit.ts";
+export { thevenin, theveninTorque, type TheveninForm, type TheveninResult } from "./thevenin.ts";
+export { curves, keyPoints, breakdownSlip, type CurveOptions, type KeyPoints, type MotorCurves, type TorquePoint } from "./curves.ts";
+export { estimateFromNameplate, type NameplateEstimate, type NameplateForModel } from "./estimate.ts";
+export { fromTests, type FromTestsResult, type TestData, type TestReading } from "./from-tests.ts";
+export { loadFromSlip, checkOperatingPoint, CURRENT_MISMATCH_LIMIT, type ModelLoad } from "./load.ts";
+export { STATOR_LEAKAGE_SHARE, BREAKDOWN_TORQUE_RATIO } from "./design.ts";

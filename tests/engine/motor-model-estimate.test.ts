@@ -1,0 +1,189 @@
+// Motor model from the nameplate (usual assumptions, refined to reproduce the rated point) and from the
+// no-load / locked-rotor tests (standard test method), checked by round trips through known circuits.
+
+import { describe, expect, it } from "vitest";
+import fc from "fast-check";
+import {
+  estimateFromNameplate,
+  evaluateAtSlip,
+  fromTests,
+  keyPoints,
+  MotorModelError,
+  type MotorModelInput,
+  type NameplateForModel,
+  type TestReading,
+} from "../../src/engine/motor-model/index.ts";
+
+const within = (actual: number, expected: number, relTol: number) =>
+  expect(Math.abs(actual - expected) / Math.abs(expected), `${actual} vs ${expected} (±${relTol * 100} %)`).toBeLessThanOrEqual(relTol);
+
+/** A typical 4-pole 75 kW 400 V 50 Hz motor: 1485 rpm, 131 A, 95 % efficiency, PF 0.87. */
+const np75: NameplateForModel = { ratedKw: 75, ratedVoltage: 400, ratedCurrent: 131, ratedHz: 50, poles: 4, ratedRpm: 1485, efficiency: 0.95, powerFactor: 0.87 };
+
+describe("estimateFromNameplate", () => {
+  const est = estimateFromNameplate(np75);
+  const rated = evaluateAtSlip(est.input, 0.01);
+  const ratedTorque = 75000 / ((1485 * 2 * Math.PI) / 60);
+
+  it("reproduces rated output at rated slip within 1 %", () => {
+    within(rated.outputPowerW, 75000, 0.01);
+    expect(est.ratedPoint.slip).toBeCloseTo(0.01, 12);
+  });
+
+  it("gives plausible efficiency, current and power factor at the rated point", () => {
+    expect(rated.efficiency).toBeGreaterThan(0.9);
+    expect(rated.efficiency).toBeLessThan(0.97);
+    within(rated.statorCurrentA, 131, 0.05);
+    expect(rated.powerFactor).toBeGreaterThan(0.82);
+    expect(rated.powerFactor).toBeLessThan(0.92);
+  });
+
+  it("has the assumed design B breakdown torque (2.25 × full load) and a plausible starting current", () => {
+    const k = keyPoints(est.input);
+    within(k.breakdown.torqueNm / ratedTorque, 2.25, 0.001);
+    expect(k.breakdown.slip).toBeGreaterThan(0.02);
+    expect(k.breakdown.slip).toBeLessThan(0.15);
+    // A single-cage circuit understates standstill current of deep-bar rotors; still several times rated.
+    expect(k.start.currentA / 131).toBeGreaterThan(3);
+    expect(k.start.currentA / 131).toBeLessThan(8);
+  });
+
+  it("labels every value a nameplate estimate and states its assumptions, refinement included", () => {
+    expect(Object.values(est.sources).every((s) => s === "nameplate-estimate")).toBe(true);
+    expect(Object.keys(est.sources).sort()).toEqual(["r1", "r2", "rc", "rotationalLossW", "x1", "x2", "xm"]);
+    expect(est.assumptions.length).toBeGreaterThanOrEqual(6);
+    expect(est.assumptions.every((a) => typeof a === "string" && a.length > 20)).toBe(true);
+    expect(est.assumptions.join("\n")).toMatch(/X1 : X2 = 0\.4 : 0\.6/);
+    expect(est.assumptions.join("\n")).toMatch(/Refined numerically: R2 solved/);
+  });
+
+  it("fills in frequency and efficiency when the nameplate lacks them", () => {
+    const e = estimateFromNameplate({ ratedKw: 75, ratedVoltage: 400, ratedCurrent: 131, poles: 4, ratedRpm: 1485 });
+    expect(e.input.frequencyHz).toBe(50);
+    within(e.ratedPoint.outputPowerW, 75000, 0.01);
+    expect(e.assumptions.join("\n")).toMatch(/Efficiency not given/);
+    expect(e.assumptions.join("\n")).toMatch(/Rated frequency not given: 50 Hz/);
+  });
+
+  it("a delta estimate behaves the same at the terminals as the star-equivalent one", () => {
+    const d = estimateFromNameplate({ ...np75, connection: "delta" });
+    expect(d.input.connection).toBe("delta");
+    within(d.input.params.r1, 3 * est.input.params.r1, 1e-6);
+    for (const s of [1, 0.2, 0.01]) {
+      within(evaluateAtSlip(d.input, s).statorCurrentA, evaluateAtSlip(est.input, s).statorCurrentA, 1e-6);
+      within(evaluateAtSlip(d.input, s).inducedTorqueNm, evaluateAtSlip(est.input, s).inducedTorqueNm, 1e-6);
+    }
+  });
+
+  it("rejects a rated speed at or above synchronous speed, saying what to check", () => {
+    expect(() => estimateFromNameplate({ ...np75, ratedRpm: 1500 })).toThrow(MotorModelError);
+    expect(() => estimateFromNameplate({ ...np75, ratedRpm: 1500 })).toThrow(/check poles, rated rpm/);
+  });
+
+  it("rejects a slip too high for the stated efficiency", () => {
+    expect(() => estimateFromNameplate({ ...np75, ratedRpm: 1440, efficiency: 0.97 })).toThrow(/rotor loss/);
+  });
+
+  it("round trip holds over plausible nameplates (fast-check)", () => {
+    const plate = fc
+      .record({
+        ratedKw: fc.double({ min: 1, max: 300, noNaN: true }),
+        ratedHz: fc.constantFrom(50, 60),
+        poles: fc.constantFrom(2, 4, 6),
+        slip: fc.double({ min: 0.008, max: 0.05, noNaN: true }),
+        // Losses a few times the rotor copper loss (≈ s·P), as in real motors; a high slip with a very
+        // high efficiency is physically impossible and the estimate rightly refuses it.
+        lossPerSlip: fc.double({ min: 2.5, max: 6, noNaN: true }),
+        powerFactor: fc.double({ min: 0.78, max: 0.9, noNaN: true }),
+        ratedVoltage: fc.constantFrom(230, 400, 460, 690),
+        designLetter: fc.constantFrom("A" as const, "B" as const, "C" as const, "D" as const),
+      })
+      .map(({ lossPerSlip, ...r }) => ({ ...r, efficiency: 1 - lossPerSlip * r.slip }))
+      .map((r) => ({
+        ...r,
+        ratedRpm: ((120 * r.ratedHz) / r.poles) * (1 - r.slip),
+        ratedCurrent: (r.ratedKw * 1000) / (Math.sqrt(3) * r.ratedVoltage * r.efficiency * r.powerFactor),
+      }));
+    fc.assert(
+      fc.property(plate, (p) => {
+        const e = estimateFromNameplate(p);
+        const pt = evaluateAtSlip(e.input, p.slip);
+        return (
+          Math.abs(pt.outputPowerW / (p.ratedKw * 1000) - 1) < 0.01 &&
+          Math.abs(pt.statorCurrentA / p.ratedCurrent - 1) < 0.05 &&
+          Math.abs(pt.efficiency - p.efficiency) < 0.01
+        );
+      }),
+      { numRuns: 40 },
+    );
+  });
+});
+
+describe("fromTests (no-load and locked-rotor tests, standard test method)", () => {
+  // A known circuit with the design B split (X1 = 0.4·X_LR), on the Chapman Ex. 7-5 ratings (460 V, 60 Hz, 4-pole, Y).
+  const known: MotorModelInput = {
+    lineVoltage: 460,
+    frequencyHz: 60,
+    poles: 4,
+    connection: "star",
+    params: { r1: 0.641, x1: 0.628, r2: 0.332, x2: 0.942, xm: 26.3 },
+    rotationalLossW: 1100,
+  };
+
+  /** No-load test: uncoupled, so the rotor slips just enough to cover the rotational loss (P_out = 0). */
+  function noLoadReading(): TestReading {
+    let lo = 1e-7;
+    let hi = 0.05;
+    for (let i = 0; i < 200; i++) {
+      const m = (lo + hi) / 2;
+      if (evaluateAtSlip(known, m).outputPowerW < 0) lo = m;
+      else hi = m;
+    }
+    const p = evaluateAtSlip(known, lo);
+    return { V: 460, I: p.statorCurrentA, P: p.inputPowerW, f: 60 };
+  }
+
+  /** Locked-rotor test at 15 Hz (25 % of rated) and reduced voltage: reactances scale with frequency. */
+  function lockedRotorReading(): TestReading {
+    const k = 15 / 60;
+    const { x1, x2, xm } = known.params;
+    const at15: MotorModelInput = { ...known, lineVoltage: 60, frequencyHz: 15, params: { ...known.params, x1: x1 * k, x2: x2 * k, xm: xm * k } };
+    const p = evaluateAtSlip(at15, 1);
+    return { V: 60, I: p.statorCurrentA, P: p.inputPowerW, f: 15 };
+  }
+
+  const data = { noLoad: noLoadReading(), lockedRotor: lockedRotorReading(), statorResistanceDc: 0.641, designLetter: "B" as const };
+
+  it("standard method recovers the circuit within its known approximations", () => {
+    const r = fromTests(data);
+    expect(r.params.r1).toBe(0.641);
+    within(r.params.r2, 0.332, 0.1); // standstill magnetising current is neglected: R2 reads low
+    within(r.params.x1, 0.628, 0.03);
+    within(r.params.x2, 0.942, 0.03);
+    within(r.params.xm, 26.3, 0.02);
+    expect(r.params.rc).toBeNull();
+    within(r.rotationalLossW, 1100, 0.01); // no-load rotor copper loss (~2 W) is counted in
+    expect(r.sources).toMatchObject({ r1: "entered", r2: "no-load/locked-rotor test", xm: "no-load/locked-rotor test" });
+    expect(r.notes.join("\n")).toMatch(/scaled from 15 Hz to 60 Hz/);
+  });
+
+  it("refined method recovers the circuit within 0.5 % and reproduces the torque at s = 0.022", () => {
+    const r = fromTests({ ...data, refine: true });
+    for (const k of ["r2", "x1", "x2", "xm"] as const) within(r.params[k] as number, known.params[k] as number, 0.005);
+    const rebuilt: MotorModelInput = { ...known, params: r.params, rotationalLossW: r.rotationalLossW };
+    within(evaluateAtSlip(rebuilt, 0.022).inducedTorqueNm, evaluateAtSlip(known, 0.022).inducedTorqueNm, 0.005);
+    within(evaluateAtSlip(rebuilt, 0.022).statorCurrentA, evaluateAtSlip(known, 0.022).statorCurrentA, 0.005);
+  });
+
+  it("without a DC resistance assumes R1 = R2 and says so", () => {
+    const r = fromTests({ ...data, statorResistanceDc: undefined });
+    expect(r.params.r1).toBeCloseTo(r.params.r2, 12);
+    within(r.params.r1 + r.params.r2, 0.641 + 0.332, 0.05);
+    expect(r.notes.join("\n")).toMatch(/R1 = R2 assumed/);
+    expect(r.sources.r1).toBe("no-load/locked-rotor test");
+  });
+
+  it("rejects readings whose power exceeds √3·V·I", () => {
+    expect(() => fromTests({ ...data, lockedRotor: { ...data.lockedRotor, P: 1e6 } })).toThrow(MotorModelError);
+  });
+});
