@@ -1,0 +1,132 @@
+// Engine benchmark: FFT speed (vs numpy's rfft when python3 + numpy are present), whole-analysis time and peak
+// memory for captures of 2^14 … 2^22 samples × 1–4 channels, and the target case 3 ch × 10 kHz × 20 s.
+//
+// Peak memory method: each case runs in a fresh child process (`tsx bench/engine.ts --child …`), which builds
+// the capture, notes its RSS, analyses it and reports (maxRSS − RSS before analysis) from
+// process.resourceUsage() — the growth of the resident set during the analysis, i.e. the engine's peak working
+// memory. It is compared with the capture's own size in Float32 (limit: 10×).
+import { spawnSync } from "node:child_process";
+import { fileURLToPath } from "node:url";
+import FFT from "fft.js";
+import { analyzeCapture } from "../src/engine/analyze.ts";
+import { synthCapture } from "../src/engine/synth.ts";
+import type { Capture, Nameplate } from "../src/engine/types.ts";
+
+const FS = 10000;
+const NAMEPLATE: Nameplate = { poles: 4, ratedRpm: 1470, ratedHz: 50, rotorBars: 28, ratedCurrent: 20 };
+
+/** A quick multi-line current capture (no per-line supply wander), cheaper to build than synthCapture at 2^22. */
+export function benchCapture(samples: number, channels: number): Capture {
+  const s = 0.02;
+  const lines: Array<[number, number]> = [
+    [50, 28],
+    [50 * (1 - 2 * s), 28 * 10 ** (-45 / 20)],
+    [50 * (1 + 2 * s), 28 * 10 ** (-48 / 20)],
+    [50 * (1 - (1 - s) / 2), 28 * 10 ** (-48 / 20)],
+    [50 * (1 + (1 - s) / 2), 28 * 10 ** (-48 / 20)],
+    [50 * (14 * (1 - s) + 1), 28 * 10 ** (-50 / 20)],
+    [50 * (14 * (1 - s) - 1), 28 * 10 ** (-50 / 20)],
+    [150, 28 * 10 ** (-32 / 20)],
+  ];
+  let seed = 99;
+  const noise = () => {
+    seed = (seed * 1103515245 + 12345) >>> 0;
+    return seed / 2 ** 32 - 0.5;
+  };
+  const base = new Float32Array(samples);
+  for (const [hz, a] of lines) {
+    const w = (2 * Math.PI * hz) / FS;
+    for (let i = 0; i < samples; i++) base[i] += a * Math.cos(w * i);
+  }
+  for (let i = 0; i < samples; i++) base[i] += 0.02 * noise();
+  const chans = [];
+  for (let c = 0; c < channels; c++) {
+    const shift = Math.round((c * FS) / 150); // a third of a 50 Hz period per phase
+    const data = new Float32Array(samples);
+    for (let i = 0; i < samples; i++) data[i] = base[(i + shift) % samples];
+    chans.push({ name: `I${"abcd"[c]}`, kind: "current" as const, position: "ABCD"[c], unit: "A", data });
+  }
+  return { sampleRate: FS, channels: chans };
+}
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[s.length >> 1];
+}
+
+export function timeAnalysis(capture: Capture, reps: number): number {
+  analyzeCapture(capture, NAMEPLATE); // warm-up (JIT, FFT plans, windows)
+  const t: number[] = [];
+  for (let i = 0; i < reps; i++) {
+    const t0 = performance.now();
+    analyzeCapture(capture, NAMEPLATE);
+    t.push(performance.now() - t0);
+  }
+  return median(t);
+}
+
+/** fft.js realTransform time per call (ms), median of batches. */
+export function timeFftJs(size: number): number {
+  const f = new FFT(size);
+  const x = new Float64Array(size);
+  for (let i = 0; i < size; i++) x[i] = Math.sin(i * 0.001) + ((i * 7919) % 13) / 13;
+  const out = new Float64Array(2 * size);
+  const reps = Math.max(3, Math.round(2 ** 22 / size));
+  for (let i = 0; i < Math.min(reps, 5); i++) f.realTransform(out, x);
+  const batches: number[] = [];
+  for (let b = 0; b < 5; b++) {
+    const t0 = performance.now();
+    for (let i = 0; i < reps; i++) f.realTransform(out, x);
+    batches.push((performance.now() - t0) / reps);
+  }
+  return median(batches);
+}
+
+/** numpy.fft.rfft time per call (ms) for each size, or null without python3/numpy. */
+export function timeNumpy(sizes: number[]): Map<number, number> | null {
+  const code = [
+    "import numpy as np, timeit, json, sys",
+    "out = {}",
+    `for n in ${JSON.stringify(sizes)}:`,
+    "    x = np.random.rand(n)",
+    "    r = max(3, (1 << 22) // n)",
+    "    out[n] = min(timeit.repeat(lambda: np.fft.rfft(x), number=r, repeat=5)) / r * 1000",
+    "print(json.dumps(out))",
+  ].join("\n");
+  const p = spawnSync("python3", ["-c", code], { encoding: "utf8", timeout: 120_000 });
+  if (p.status !== 0) return null;
+  const obj = JSON.parse(p.stdout) as Record<string, number>;
+  return new Map(Object.entries(obj).map(([k, v]) => [Number(k), v]));
+}
+
+/** Child-process memory probe: prints {ms, peakMb, captureMb}. */
+function childMain(samples: number, channels: number): void {
+  const capture = benchCapture(samples, channels);
+  const before = process.memoryUsage().rss;
+  const t0 = performance.now();
+  analyzeCapture(capture, NAMEPLATE);
+  const ms = performance.now() - t0;
+  const peak = process.resourceUsage().maxRSS * 1024;
+  process.stdout.write(JSON.stringify({ ms, peakMb: Math.max(0, peak - before) / 2 ** 20, captureMb: (samples * channels * 4) / 2 ** 20 }));
+}
+
+export function measurePeakMemory(samples: number, channels: number): { ms: number; peakMb: number; captureMb: number } | null {
+  const self = fileURLToPath(import.meta.url);
+  const p = spawnSync(process.execPath, ["--import", "tsx", self, "--child", String(samples), String(channels)], { encoding: "utf8", timeout: 120_000 });
+  if (p.status !== 0) return null;
+  return JSON.parse(p.stdout);
+}
+
+export function targetCase(): number {
+  const { capture, nameplate } = synthCapture({ poles: 4, supplyHz: 50, slip: 0.02, durationS: 20, sampleRate: 10000, phases: 3, brokenBars: 1 });
+  analyzeCapture(capture, nameplate);
+  const t: number[] = [];
+  for (let i = 0; i < 7; i++) {
+    const t0 = performance.now();
+    analyzeCapture(capture, nameplate);
+    t.push(performance.now() - t0);
+  }
+  return median(t);
+}
+
+if (process.argv[2] === "--child") childMain(Number(process.argv[3]), Number(process.argv[4]));

@@ -1,0 +1,78 @@
+// `npm run bench`: parser, FFT and engine figures in one run (~1–3 min on 2 cores). See bench/engine.ts for the
+// peak-memory method (child processes, maxRSS growth during the analysis).
+import { existsSync } from "node:fs";
+import { fileURLToPath } from "node:url";
+import { dirname, join } from "node:path";
+import { benchCapture, measurePeakMemory, targetCase, timeAnalysis, timeFftJs, timeNumpy } from "./engine.ts";
+import { realFft, nextPow2 } from "../src/engine/fft.ts";
+
+const here = dirname(fileURLToPath(import.meta.url));
+const pad = (s: string | number, n: number) => String(s).padStart(n);
+const f1 = (v: number | null | undefined) => (v === null || v === undefined ? "—" : v.toFixed(1));
+
+async function parseModule(): Promise<null | { parseCsv: (b: Uint8Array, o?: object) => unknown; writeCsv: (c: unknown, o?: object) => string }> {
+  if (!existsSync(join(here, "../src/engine/parse/index.ts"))) return null;
+  return (await import("../src/engine/parse/index.ts")) as never;
+}
+
+async function main(): Promise<void> {
+  const started = performance.now();
+  const parse = await parseModule();
+  const lengths = [14, 16, 18, 20, 22].map((k) => 2 ** k);
+
+  console.log("== FFT: fft.js realTransform vs numpy.fft.rfft (same run, same lengths) ==");
+  const np = timeNumpy(lengths);
+  console.log(`${pad("N", 9)} ${pad("fft.js ms", 10)} ${pad("wrapper ms", 11)} ${pad("numpy ms", 9)} ${pad("ratio", 6)}`);
+  for (const n of lengths) {
+    const js = timeFftJs(n);
+    const x = new Float64Array(n).map((_, i) => Math.sin(i));
+    realFft(x);
+    const t0 = performance.now();
+    const reps = Math.max(2, Math.round(2 ** 21 / n));
+    for (let i = 0; i < reps; i++) realFft(x);
+    const wrap = (performance.now() - t0) / reps;
+    const ref = np?.get(n) ?? null;
+    console.log(`${pad(`2^${Math.log2(n)}`, 9)} ${pad(js.toFixed(3), 10)} ${pad(wrap.toFixed(3), 11)} ${pad(ref === null ? "—" : ref.toFixed(3), 9)} ${pad(ref === null ? "—" : (js / ref).toFixed(2), 6)}`);
+  }
+  if (!np) console.log("(python3 with numpy not available: no ratio)");
+
+  console.log("\n== Capture cases (10 kHz current channels): parse (CSV in memory), FFT of one channel, analysis, peak memory ==");
+  console.log(`${pad("samples", 9)} ${pad("ch", 3)} ${pad("parse ms", 9)} ${pad("fft ms", 8)} ${pad("analyse ms", 11)} ${pad("peak MB", 8)} ${pad("capture MB", 11)} ${pad("×capture", 9)}`);
+  for (const n of lengths) {
+    for (const ch of n >= 2 ** 22 ? [1, 4] : [1, 2, 4]) {
+      const capture = benchCapture(n, ch);
+      let parseMs: number | null = null;
+      if (parse && n * ch <= 2 ** 20) {
+        const bytes = new TextEncoder().encode(parse.writeCsv(capture, { digits: 7 }));
+        parse.parseCsv(bytes);
+        const t0 = performance.now();
+        parse.parseCsv(bytes);
+        parseMs = performance.now() - t0;
+      }
+      const size = nextPow2(n);
+      const data = capture.channels[0].data;
+      realFft(data, { size });
+      const t1 = performance.now();
+      realFft(data, { size });
+      const fftMs = performance.now() - t1;
+      const analyseMs = timeAnalysis(capture, n >= 2 ** 20 ? 1 : 3);
+      const mem = measurePeakMemory(n, ch);
+      console.log(
+        `${pad(`2^${Math.log2(n)}`, 9)} ${pad(ch, 3)} ${pad(f1(parseMs), 9)} ${pad(fftMs.toFixed(1), 8)} ${pad(analyseMs.toFixed(1), 11)} ${pad(f1(mem?.peakMb), 8)} ${pad(f1(mem?.captureMb), 11)} ${pad(mem ? (mem.peakMb / mem.captureMb).toFixed(1) : "—", 9)}`,
+      );
+    }
+  }
+
+  console.log("\n== Target: 3 channels × 10 kHz × 20 s (600 000 samples), whole analysis, median of 7 (target ≤ 150 ms) ==");
+  console.log(`analysis ${targetCase().toFixed(1)} ms`);
+
+  const parseBench = join(here, "parse.ts");
+  if (existsSync(parseBench)) {
+    console.log("\n== Parsers (bench/parse.ts) ==");
+    const mod = (await import("./parse.ts")) as { benchParse?: () => Promise<Array<{ name: string; mb: number; ms: number; mbPerS: number }>> };
+    if (mod.benchParse) for (const r of await mod.benchParse()) console.log(`${r.name.padEnd(28)} ${pad(r.mb.toFixed(1), 7)} MB ${pad(r.ms.toFixed(1), 9)} ms ${pad(r.mbPerS, 6)} MB/s`);
+  }
+  console.log(`\nbench finished in ${((performance.now() - started) / 1000).toFixed(0)} s`);
+}
+
+await main();
