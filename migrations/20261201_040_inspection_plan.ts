@@ -17,9 +17,14 @@ export async function up(knex: Knex): Promise<void> {
     `alter table inspections add constraint inspections_status_check check (status in ('planned','in_progress','done','cancelled'))`,
   );
   await knex.raw(`alter table inspections add constraint inspections_priority_check check (priority in ('urgent','high','normal','low'))`);
+  // One open inspection per finding, also when two planners press "schedule" at the same moment.
+  await knex.raw(
+    `create unique index inspections_one_open_per_finding on inspections (finding_id) where finding_id is not null and status in ('planned','in_progress')`,
+  );
 }
 
 export async function down(knex: Knex): Promise<void> {
+  await knex.raw(`drop index if exists inspections_one_open_per_finding`);
   await knex.raw(`alter table inspections drop constraint if exists inspections_priority_check`);
   await knex.raw(`alter table inspections drop constraint if exists inspections_status_check`);
   await knex.schema.alterTable("inspection_events", (t) => {
