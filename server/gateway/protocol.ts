@@ -1,0 +1,118 @@
+// The gateway stream protocol, shared by the server namespace and the command-line gateway.
+// Pure module (zod only): no database, no socket.io, so a gateway written in TypeScript can import it.
+//
+// Namespace "/gateway", handshake `auth: { token: "bhg_<prefix>_<secret>" }`. Every request carries a
+// socket.io acknowledgement callback:
+//
+//   begin { assetId, measurementPointId?, sampleRate, channels, sampleFormat, takenAt?, resumeSessionId? }
+//     → { sessionId, nextSeq }                      nextSeq = 0 for a new session, the next chunk to send on resume
+//   chunk { sessionId, seq, data }                  data: the interleaved frames, little-endian, whole frames only
+//     → { seq, duplicate? }                         duplicate: this chunk was already stored, it was not appended again
+//   end { sessionId, totalChunks }
+//     → { captureId, status }                       the capture is queued for analysis like an upload
+//
+// When a request is refused the server emits `stream:error { code, message, sessionId?, seq?, nextSeq? }`
+// and answers the acknowledgement with `{ error: { code, message, nextSeq? } }`, so a gateway waiting on the
+// ack is never left hanging.
+
+import { z } from "zod";
+
+export const GATEWAY_NAMESPACE = "/gateway";
+
+export const SAMPLE_FORMATS = ["f32le", "i16le", "i32le"] as const;
+export type SampleFormat = (typeof SAMPLE_FORMATS)[number];
+
+export const BYTES_PER_SAMPLE: Record<SampleFormat, number> = { f32le: 4, i16le: 2, i32le: 4 };
+
+/** Largest chunk the server takes; the socket.io buffer limit is set above this (server/realtime.ts). */
+export const MAX_CHUNK_BYTES = 2 * 1024 * 1024;
+
+export const CHANNEL_KINDS = ["current", "vibration", "voltage", "other"] as const;
+
+export const streamChannel = z.object({
+  name: z.string().trim().min(1, "Give every channel a name.").max(60),
+  kind: z.enum(CHANNEL_KINDS, { message: `Channel kind must be one of ${CHANNEL_KINDS.join(", ")}.` }),
+  unit: z.string().trim().min(1, "Give every channel its unit, e.g. A or m/s2.").max(12),
+  /** Current phase (A/B/C) or vibration axis (H/V/A), when known. */
+  position: z.string().trim().max(10).optional(),
+  /** Engineering units per count, for integer sample formats (default 1). Ignored for f32le. */
+  scale: z.number().positive().finite().optional(),
+});
+export type StreamChannel = z.infer<typeof streamChannel>;
+
+export const beginMessage = z.object({
+  assetId: z.number().int().positive(),
+  measurementPointId: z.number().int().positive().optional(),
+  // The WAV the stream is assembled into stores the rate in whole Hz.
+  sampleRate: z.number().int("The sample rate must be a whole number of Hz.").min(100, "The sample rate must be at least 100 Hz.").max(1_000_000),
+  channels: z.array(streamChannel).min(1, "Describe at least one channel.").max(32),
+  sampleFormat: z.enum(SAMPLE_FORMATS, { message: `sampleFormat must be one of ${SAMPLE_FORMATS.join(", ")}.` }),
+  takenAt: z.iso.datetime({ offset: true, message: "takenAt must be an ISO 8601 date-time, e.g. 2026-12-01T08:30:00Z." }).optional(),
+  resumeSessionId: z.uuid("resumeSessionId must be the sessionId the server gave for the stream.").optional(),
+});
+export type BeginMessage = z.infer<typeof beginMessage>;
+
+export const chunkMessage = z.object({
+  sessionId: z.uuid(),
+  seq: z.number().int().min(0),
+  // socket.io delivers binary attachments as Buffer in Node; a browser or another client may send an ArrayBuffer
+  // or typed array, which the handler normalises.
+  data: z.custom<Buffer | ArrayBuffer | ArrayBufferView>(
+    (v) => Buffer.isBuffer(v) || v instanceof ArrayBuffer || ArrayBuffer.isView(v),
+    "data must be binary (the interleaved frames).",
+  ),
+});
+export type ChunkMessage = z.infer<typeof chunkMessage>;
+
+export const endMessage = z.object({
+  sessionId: z.uuid(),
+  totalChunks: z.number().int().min(0),
+});
+export type EndMessage = z.infer<typeof endMessage>;
+
+export type StreamErrorCode =
+  | "bad-request"
+  | "unknown-session"
+  | "session-closed"
+  | "resume-mismatch"
+  | "unknown-asset"
+  | "wrong-site"
+  | "gap"
+  | "bad-frame"
+  | "chunk-too-large"
+  | "incomplete"
+  | "empty"
+  | "revoked"
+  | "busy"
+  | "server";
+
+export interface StreamError {
+  code: StreamErrorCode;
+  message: string;
+  sessionId?: string;
+  seq?: number;
+  /** The chunk the server expects next, when that helps the gateway recover. */
+  nextSeq?: number;
+}
+
+export interface BeginAck {
+  sessionId: string;
+  nextSeq: number;
+}
+export interface ChunkAck {
+  seq: number;
+  duplicate?: boolean;
+}
+export interface EndAck {
+  captureId: number;
+  status: string;
+}
+export type Ack<T> = T | { error: StreamError };
+
+export function isAckError<T>(ack: Ack<T>): ack is { error: StreamError } {
+  return typeof ack === "object" && ack !== null && "error" in ack;
+}
+
+export function frameBytes(channelCount: number, format: SampleFormat): number {
+  return channelCount * BYTES_PER_SAMPLE[format];
+}

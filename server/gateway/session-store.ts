@@ -1,0 +1,142 @@
+// Stream sessions: the stream_sessions row is the truth about progress (next_seq, bytes_received); the frames
+// themselves go to <dataDir>/streams/<sessionId>.part.
+//
+// Why positional writes instead of appending: a chunk is written at offset bytes_received and only then is the row
+// advanced. If the process dies between the two, the file holds a tail the row does not count; the resent chunk
+// overwrites exactly that tail, and assembly reads only bytes_received bytes. Appending would leave the tail
+// in place and shift every later frame.
+
+import crypto from "node:crypto";
+import fs from "node:fs/promises";
+import { constants as fsConstants } from "node:fs";
+import path from "node:path";
+import type { Knex } from "knex";
+import type { Config } from "../config.ts";
+import type { SampleFormat, StreamChannel } from "./protocol.ts";
+
+export interface StreamSession {
+  id: string;
+  gateway_id: number;
+  asset_id: number;
+  measurement_point_id: number | null;
+  sample_rate: number;
+  channels: StreamChannel[];
+  sample_format: SampleFormat;
+  next_seq: number;
+  bytes_received: number;
+  status: "open" | "ended" | "aborted";
+  capture_id: number | null;
+  taken_at: Date | null;
+  created_at: Date;
+}
+
+export function streamsDir(config: Config): string {
+  return path.resolve(config.dataDir, "streams");
+}
+
+export function partPath(config: Config, sessionId: string): string {
+  return path.join(streamsDir(config), `${sessionId}.part`);
+}
+
+function fromRow(row: Record<string, unknown>): StreamSession {
+  // bigint columns come back as strings from pg.
+  return { ...(row as unknown as StreamSession), bytes_received: Number(row.bytes_received), sample_rate: Number(row.sample_rate) };
+}
+
+export async function getSession(db: Knex | Knex.Transaction, id: string, opts: { forUpdate?: boolean } = {}): Promise<StreamSession | null> {
+  const q = db("stream_sessions").where({ id }).first();
+  if (opts.forUpdate) q.forUpdate();
+  const row = await q;
+  return row ? fromRow(row) : null;
+}
+
+export interface NewSession {
+  gatewayId: number;
+  assetId: number;
+  measurementPointId?: number;
+  sampleRate: number;
+  channels: StreamChannel[];
+  sampleFormat: SampleFormat;
+  takenAt?: string;
+}
+
+export async function createSession(db: Knex, config: Config, s: NewSession): Promise<StreamSession> {
+  const id = crypto.randomUUID();
+  await fs.mkdir(streamsDir(config), { recursive: true });
+  await fs.writeFile(partPath(config, id), new Uint8Array(0));
+  const [row] = await db("stream_sessions")
+    .insert({
+      id,
+      gateway_id: s.gatewayId,
+      asset_id: s.assetId,
+      measurement_point_id: s.measurementPointId ?? null,
+      sample_rate: s.sampleRate,
+      channels: JSON.stringify(s.channels),
+      sample_format: s.sampleFormat,
+      taken_at: s.takenAt ? new Date(s.takenAt) : new Date(),
+    })
+    .returning("*");
+  return fromRow(row);
+}
+
+/** Write a chunk's bytes at `offset` of the session's part file (creating the file if it went missing). */
+export async function writeChunkAt(config: Config, sessionId: string, offset: number, data: Uint8Array): Promise<void> {
+  await fs.mkdir(streamsDir(config), { recursive: true });
+  const fh = await fs.open(partPath(config, sessionId), fsConstants.O_WRONLY | fsConstants.O_CREAT);
+  try {
+    let done = 0;
+    while (done < data.length) {
+      const { bytesWritten } = await fh.write(data, done, data.length - done, offset + done);
+      done += bytesWritten;
+    }
+  } finally {
+    await fh.close();
+  }
+}
+
+/**
+ * Advance the session past chunk `seq` if it still expects that chunk. Returns false when another connection
+ * (a resumed stream on another server process, say) got there first; the caller then treats the chunk as stored.
+ */
+export async function recordChunk(db: Knex, sessionId: string, seq: number, bytes: number): Promise<boolean> {
+  const n = await db("stream_sessions")
+    .where({ id: sessionId, next_seq: seq, status: "open" })
+    .update({ next_seq: seq + 1, bytes_received: db.raw("bytes_received + ?", [bytes]), updated_at: db.fn.now() });
+  return n === 1;
+}
+
+/** The stored frames: exactly bytes_received bytes of the part file. */
+export async function readFrames(config: Config, session: StreamSession): Promise<Buffer> {
+  const fh = await fs.open(partPath(config, session.id), "r");
+  try {
+    const buf = Buffer.alloc(session.bytes_received);
+    let done = 0;
+    while (done < buf.length) {
+      const { bytesRead } = await fh.read(buf, done, buf.length - done, done);
+      if (bytesRead === 0) throw new Error(`The stored stream ${session.id} is shorter than recorded (${done} of ${buf.length} bytes).`);
+      done += bytesRead;
+    }
+    return buf;
+  } finally {
+    await fh.close();
+  }
+}
+
+export async function removePart(config: Config, sessionId: string): Promise<void> {
+  await fs.rm(partPath(config, sessionId), { force: true });
+}
+
+/**
+ * Mark sessions that have not moved for `olderThanHours` as aborted and delete their part files, so a gateway that
+ * never came back does not leave frames on disk for ever. A resume of an aborted session is refused with a clear
+ * message; the gateway then starts a new one.
+ */
+export async function abandonStaleSessions(db: Knex, config: Config, olderThanHours: number): Promise<number> {
+  const rows: { id: string }[] = await db("stream_sessions")
+    .where({ status: "open" })
+    .andWhere("updated_at", "<", db.raw(`now() - make_interval(hours => ?)`, [olderThanHours]))
+    .update({ status: "aborted", updated_at: db.fn.now() })
+    .returning("id");
+  for (const r of rows) await removePart(config, r.id).catch(() => {});
+  return rows.length;
+}

@@ -1,0 +1,177 @@
+// A gateway-side client for the stream protocol (./protocol.ts): what the command-line gateway runs, and what the
+// tests drive. It sends a capture's frames in numbered chunks with a few in flight, and when the connection drops it
+// reconnects, resumes the session (begin with resumeSessionId) and goes on from the chunk the server asks for.
+
+import { io, type Socket } from "socket.io-client";
+import {
+  GATEWAY_NAMESPACE,
+  frameBytes,
+  isAckError,
+  type Ack,
+  type BeginAck,
+  type ChunkAck,
+  type EndAck,
+  type SampleFormat,
+  type StreamChannel,
+  type StreamError,
+} from "./protocol.ts";
+
+export interface StreamCaptureOptions {
+  /** Server base URL, e.g. http://localhost:5180. */
+  url: string;
+  token: string;
+  assetId: number;
+  measurementPointId?: number;
+  sampleRate: number;
+  channels: StreamChannel[];
+  sampleFormat: SampleFormat;
+  /** Interleaved frames, little-endian. */
+  frames: Uint8Array;
+  takenAt?: string;
+  /** Chunk size in bytes, rounded down to whole frames (default 64 KiB). */
+  chunkBytes?: number;
+  /** Chunks sent before waiting for the oldest ack (default 4). */
+  window?: number;
+  /** Reconnect attempts after a dropped connection before giving up (default 10). */
+  retries?: number;
+  retryDelayMs?: number;
+  /** How long to wait for an ack before treating the connection as dead (default 30 s). */
+  ackTimeoutMs?: number;
+  onProgress?: (p: { ackedBytes: number; totalBytes: number; seq: number; totalChunks: number }) => void;
+  /** Told about each reconnect; `error` is what broke the previous connection. */
+  onRetry?: (p: { attempt: number; error: Error }) => void;
+  /** Test hook: called after each ack with a function that cuts the connection the way a network fault would. */
+  onChunkAck?: (seq: number, cut: () => void) => void;
+}
+
+export interface StreamCaptureResult {
+  captureId: number;
+  status: string;
+  sessionId: string;
+  totalChunks: number;
+  /** nextSeq the server gave on each resume. */
+  resumedAt: number[];
+}
+
+/** The server refused something; retrying the same thing will not help. */
+export class StreamRefused extends Error {
+  constructor(public error: StreamError) {
+    super(error.message);
+    this.name = "StreamRefused";
+  }
+}
+
+/** The connection broke or went silent; reconnecting may help. */
+class ConnectionLost extends Error {}
+
+export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamCaptureResult> {
+  const fb = frameBytes(opts.channels.length, opts.sampleFormat);
+  if (opts.frames.length === 0 || opts.frames.length % fb !== 0)
+    throw new RangeError(`The frames hold ${opts.frames.length} bytes, not a whole, non-zero number of ${fb}-byte frames.`);
+  const chunkBytes = Math.max(fb, Math.floor((opts.chunkBytes ?? 64 * 1024) / fb) * fb);
+  const totalChunks = Math.ceil(opts.frames.length / chunkBytes);
+  const chunkAt = (seq: number) => opts.frames.subarray(seq * chunkBytes, Math.min((seq + 1) * chunkBytes, opts.frames.length));
+  const retries = opts.retries ?? 10;
+  const resumedAt: number[] = [];
+  let sessionId: string | undefined;
+
+  for (let attempt = 0; ; attempt++) {
+    const socket = io(opts.url.replace(/\/+$/, "") + GATEWAY_NAMESPACE, {
+      auth: { token: opts.token },
+      transports: ["websocket"],
+      reconnection: false, // this loop reconnects, so it can resume the session first
+      forceNew: true,
+    });
+    try {
+      await connected(socket);
+      const req = requester(socket, opts.ackTimeoutMs ?? 30_000);
+      const began = await req<BeginAck>("begin", {
+        assetId: opts.assetId,
+        ...(opts.measurementPointId !== undefined ? { measurementPointId: opts.measurementPointId } : {}),
+        sampleRate: opts.sampleRate,
+        channels: opts.channels,
+        sampleFormat: opts.sampleFormat,
+        ...(opts.takenAt ? { takenAt: opts.takenAt } : {}),
+        ...(sessionId ? { resumeSessionId: sessionId } : {}),
+      });
+      if (sessionId) resumedAt.push(began.nextSeq);
+      sessionId = began.sessionId;
+
+      const cut = () => socket.io.engine?.close();
+      const window = Math.max(1, opts.window ?? 4);
+      const inflight: { seq: number; ack: Promise<ChunkAck> }[] = [];
+      let next = began.nextSeq;
+      let acked = began.nextSeq;
+      while (acked < totalChunks) {
+        while (next < totalChunks && inflight.length < window) {
+          const ack = req<ChunkAck>("chunk", { sessionId, seq: next, data: chunkAt(next) });
+          ack.catch(() => {}); // awaited in order below; this only keeps a later failure from being "unhandled"
+          inflight.push({ seq: next, ack });
+          next++;
+        }
+        const head = inflight.shift()!;
+        await head.ack;
+        acked = head.seq + 1;
+        opts.onProgress?.({ ackedBytes: Math.min(acked * chunkBytes, opts.frames.length), totalBytes: opts.frames.length, seq: head.seq, totalChunks });
+        opts.onChunkAck?.(head.seq, cut);
+      }
+      const done = await req<EndAck>("end", { sessionId, totalChunks });
+      return { captureId: done.captureId, status: done.status, sessionId, totalChunks, resumedAt };
+    } catch (err) {
+      if (err instanceof StreamRefused) {
+        // A gap means the server lost track of chunks it acknowledged (e.g. its disk was restored): resume from nextSeq.
+        if (err.error.code !== "gap" && err.error.code !== "server") throw err;
+      } else if (!(err instanceof ConnectionLost)) throw err;
+      if (attempt >= retries) throw new Error(`Gave up after ${retries} reconnect attempts: ${(err as Error).message}`);
+      opts.onRetry?.({ attempt: attempt + 1, error: err as Error });
+      await sleep((opts.retryDelayMs ?? 1000) * Math.min(8, 2 ** attempt));
+    } finally {
+      socket.removeAllListeners();
+      socket.disconnect();
+    }
+  }
+}
+
+function connected(socket: Socket): Promise<void> {
+  return new Promise((resolve, reject) => {
+    socket.once("connect", () => resolve());
+    socket.once("connect_error", (err: Error & { data?: { code?: string } }) => {
+      // A refused token is final; a server that is down or restarting is worth another try.
+      if (err.data?.code === "unauthorized") reject(new StreamRefused({ code: "revoked", message: err.message }));
+      else reject(new ConnectionLost(`Could not connect to the server (${err.message})`));
+    });
+  });
+}
+
+/** emit-with-ack that fails fast when the connection drops, and turns an error ack into StreamRefused. */
+function requester(socket: Socket, timeoutMs: number) {
+  let lost: ConnectionLost | null = null;
+  const waiting = new Set<(e: Error) => void>();
+  socket.on("disconnect", (reason) => {
+    lost = new ConnectionLost(`Connection lost (${reason}).`);
+    for (const fail of waiting) fail(lost);
+    waiting.clear();
+  });
+  return <T>(event: string, payload: unknown): Promise<T> =>
+    new Promise<T>((resolve, reject) => {
+      if (lost) return reject(lost);
+      const fail = (e: Error) => {
+        clearTimeout(timer);
+        reject(e);
+      };
+      const timer = setTimeout(() => {
+        waiting.delete(fail);
+        reject(new ConnectionLost(`No answer to "${event}" within ${timeoutMs / 1000} s.`));
+        socket.io.engine?.close();
+      }, timeoutMs);
+      waiting.add(fail);
+      socket.emit(event, payload, (answer: Ack<T>) => {
+        clearTimeout(timer);
+        waiting.delete(fail);
+        if (isAckError(answer)) reject(new StreamRefused(answer.error));
+        else resolve(answer);
+      });
+    });
+}
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));

@@ -1,0 +1,266 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { spawn } from "node:child_process";
+import { io as ioClient, type Socket } from "socket.io-client";
+import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
+import { insertMotor, nextEvent, sleep, startTestServer, type TestServer } from "../helpers/realtime.ts";
+import { createFsBlobStore } from "../../server/blob/fs.ts";
+import type { BlobStore } from "../../server/blob/index.ts";
+import type { AnalysisJobData, CaptureQueue } from "../../server/queue.ts";
+import { parseCapture, writeCsv, writeWav } from "../../src/engine/parse/index.ts";
+import type { Capture } from "../../src/engine/types.ts";
+import { captureToF32Frames } from "../../server/gateway/assemble.ts";
+import { streamCapture } from "../../server/gateway/stream-client.ts";
+import { abandonStaleSessions, partPath } from "../../server/gateway/session-store.ts";
+import type { StreamError } from "../../server/gateway/protocol.ts";
+
+const ROOT = path.resolve(import.meta.dirname, "../..");
+const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "bh-gateway-"));
+const jobs: AnalysisJobData[] = [];
+let env: TestEnv;
+let server: TestServer;
+let blob: BlobStore;
+let motor: Awaited<ReturnType<typeof insertMotor>>;
+let otherSiteMotor: Awaited<ReturnType<typeof insertMotor>>;
+let token: string;
+let gatewayId: number;
+const sockets: Socket[] = [];
+
+const CHANNELS = [
+  { name: "Ia", kind: "current" as const, unit: "A", position: "A" },
+  { name: "Ib", kind: "current" as const, unit: "A", position: "B" },
+  { name: "Ic", kind: "current" as const, unit: "A", position: "C" },
+];
+
+/** Three phase currents, 50 Hz with a little noise, 10 kHz, 1.5 s. */
+function syntheticCapture(seconds = 1.5, rate = 10_000): Capture {
+  const n = Math.round(seconds * rate);
+  let seed = 12345;
+  const noise = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31 - 0.5) * 0.05;
+  return {
+    sampleRate: rate,
+    channels: CHANNELS.map((c, k) => {
+      const data = new Float64Array(n);
+      for (let i = 0; i < n; i++) data[i] = 42 * Math.sin(2 * Math.PI * 50 * (i / rate) - (2 * Math.PI * k) / 3) + noise();
+      return { ...c, data };
+    }),
+  };
+}
+
+async function newGateway(name: string, siteId = motor.siteId) {
+  const admin = await signedIn(env.app, "admin");
+  const res = await admin.post("/api/gateways").send({ name, siteId });
+  expect(res.status).toBe(201);
+  return res.body as { id: number; token: string };
+}
+
+function rawGateway(tok: string | undefined): Promise<Socket> {
+  const socket = ioClient(`${server.url}/gateway`, { auth: tok === undefined ? {} : { token: tok }, transports: ["websocket"], reconnection: false, forceNew: true });
+  sockets.push(socket);
+  return new Promise((resolve, reject) => {
+    socket.once("connect", () => resolve(socket));
+    socket.once("connect_error", reject);
+  });
+}
+
+const f32 = (...values: number[]) => Buffer.from(new Float32Array(values).buffer);
+const frames3 = (start: number, count: number) => f32(...Array.from({ length: count * 3 }, (_, i) => start + i));
+
+async function storedCapture(captureId: number) {
+  const row = await env.db("captures").where({ id: captureId }).first();
+  return { row, capture: parseCapture(await blob.get(row.blob_key), { fileName: row.file_name }) };
+}
+
+beforeAll(async () => {
+  env = await makeTestEnv({ dataDir }, (ctx) => {
+    blob = createFsBlobStore(path.join(dataDir, "blobs"));
+    ctx.services.blob = blob;
+    // The analysis itself is not under test: a queue that only records the jobs it was given.
+    ctx.services.queue = { sendAnalysis: async (d: AnalysisJobData) => (jobs.push(d), `job-${jobs.length}`) } as unknown as CaptureQueue;
+  });
+  motor = await insertMotor(env.db, "gs");
+  otherSiteMotor = await insertMotor(env.db, "go");
+  server = await startTestServer(env);
+  ({ token, id: gatewayId } = await newGateway("Pump house gateway"));
+});
+afterAll(async () => {
+  for (const s of sockets) s.close();
+  await server?.close();
+  await env?.close();
+  fs.rmSync(dataDir, { recursive: true, force: true });
+});
+
+describe("streamed captures", () => {
+  it.each([1, 4])("a stream cut in the middle resumes from the last acknowledged chunk and yields one capture equal to the file (window %i)", async (window) => {
+    const file = path.join(dataDir, "pump-7.wav");
+    fs.writeFileSync(file, writeWav(syntheticCapture()));
+    const fromFile = parseCapture(fs.readFileSync(file));
+    const frames = captureToF32Frames(fromFile);
+    let cut = false;
+    const before = await env.db("captures").count("* as n").first();
+
+    const result = await streamCapture({
+      url: server.url,
+      token,
+      assetId: motor.assetId,
+      measurementPointId: motor.pointId,
+      sampleRate: fromFile.sampleRate,
+      channels: CHANNELS,
+      sampleFormat: "f32le",
+      frames,
+      takenAt: "2026-11-30T06:15:00Z",
+      chunkBytes: 12_000, // 1000 frames: 15 chunks
+      window,
+      retryDelayMs: 20,
+      onChunkAck: (seq, drop) => {
+        if (seq === 6 && !cut) {
+          cut = true;
+          drop();
+        }
+      },
+    });
+
+    expect(result.totalChunks).toBe(15);
+    // With one chunk in flight the server has exactly chunks 0–6; with more, it may have stored some unacknowledged ones.
+    if (window === 1) expect(result.resumedAt).toEqual([7]);
+    else {
+      expect(result.resumedAt).toHaveLength(1);
+      expect(result.resumedAt[0]).toBeGreaterThanOrEqual(7);
+    }
+    expect(result.status).toBe("queued");
+    const after = await env.db("captures").count("* as n").first();
+    expect(Number(after!.n) - Number(before!.n)).toBe(1);
+
+    const { row, capture } = await storedCapture(result.captureId);
+    expect(row).toMatchObject({ source: "stream", gateway_id: gatewayId, asset_id: motor.assetId, measurement_point_id: motor.pointId, format: "wav", sample_rate: 10_000 });
+    expect(new Date(row.taken_at).toISOString()).toBe("2026-11-30T06:15:00.000Z");
+    expect(capture.sampleRate).toBe(fromFile.sampleRate);
+    expect(capture.channels.map((c) => [c.name, c.kind, c.unit, c.position])).toEqual(CHANNELS.map((c) => [c.name, c.kind, c.unit, c.position]));
+    // Same frames, sample for sample (both sides are float32 values).
+    expect(captureToF32Frames(capture).equals(frames)).toBe(true);
+
+    const session = await env.db("stream_sessions").where({ id: result.sessionId }).first();
+    expect(session).toMatchObject({ status: "ended", capture_id: result.captureId, next_seq: 15 });
+    expect(Number(session.bytes_received)).toBe(frames.length);
+    expect(fs.existsSync(partPath(env.config, result.sessionId))).toBe(false);
+    expect(jobs.filter((j) => j.captureId === result.captureId)).toHaveLength(1);
+    expect((await env.db("gateways").where({ id: gatewayId }).first()).last_seen_at).toBeTruthy();
+  });
+
+  it("re-acknowledges a duplicate chunk without storing it twice; end is idempotent", async () => {
+    const socket = await rawGateway(token);
+    const begin = await socket.emitWithAck("begin", { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" });
+    expect(begin).toEqual({ sessionId: expect.any(String), nextSeq: 0 });
+    const { sessionId } = begin;
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) })).toEqual({ seq: 0 });
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) })).toEqual({ seq: 0, duplicate: true });
+    let row = await env.db("stream_sessions").where({ id: sessionId }).first();
+    expect(row.next_seq).toBe(1);
+    expect(Number(row.bytes_received)).toBe(120);
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(30, 290) })).toEqual({ seq: 1 });
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) })).toEqual({ seq: 0, duplicate: true });
+    const end = await socket.emitWithAck("end", { sessionId, totalChunks: 2 });
+    expect(end).toEqual({ captureId: expect.any(Number), status: "queued" });
+    // An "end" resent after a lost ack answers with the same capture.
+    expect(await socket.emitWithAck("end", { sessionId, totalChunks: 2 })).toMatchObject({ captureId: end.captureId });
+    expect(await env.db("captures").where({ gateway_id: gatewayId, id: end.captureId }).count("* as n").first()).toMatchObject({ n: "1" });
+    row = await env.db("stream_sessions").where({ id: sessionId }).first();
+    expect(Number(row.bytes_received)).toBe(3600);
+    const { capture } = await storedCapture(end.captureId);
+    expect(captureToF32Frames(capture).equals(frames3(0, 300))).toBe(true);
+  });
+
+  it("answers a gap and a chunk of partial frames with stream:error, storing neither", async () => {
+    const socket = await rawGateway(token);
+    const errors: StreamError[] = [];
+    socket.on("stream:error", (e) => errors.push(e));
+    const { sessionId } = await socket.emitWithAck("begin", { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" });
+    await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) });
+
+    const gap = await socket.emitWithAck("chunk", { sessionId, seq: 2, data: frames3(0, 10) });
+    expect(gap.error).toMatchObject({ code: "gap", sessionId, seq: 2, nextSeq: 1 });
+    expect(gap.error.message).toMatch(/Chunk 2 arrived but chunk 1 is the next one expected/);
+
+    const bad = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: Buffer.alloc(13) });
+    expect(bad.error).toMatchObject({ code: "bad-frame", sessionId, seq: 1 });
+    expect(bad.error.message).toMatch(/Chunk 1 holds 13 bytes, which is not a whole number of frames.*3 channel\(s\) × 4 bytes \(f32le\) = 12 bytes/);
+
+    const early = await socket.emitWithAck("end", { sessionId, totalChunks: 3 });
+    expect(early.error).toMatchObject({ code: "incomplete", nextSeq: 1 });
+    await sleep(50);
+    expect(errors.map((e) => e.code)).toEqual(["gap", "bad-frame", "incomplete"]);
+    const row = await env.db("stream_sessions").where({ id: sessionId }).first();
+    expect(row).toMatchObject({ next_seq: 1, status: "open", capture_id: null });
+    expect(Number(row.bytes_received)).toBe(120);
+  });
+
+  it("refuses bad begins: unknown motor, a motor on another site, another gateway's session, a fractional rate", async () => {
+    const socket = await rawGateway(token);
+    const base = { sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
+    expect((await socket.emitWithAck("begin", { ...base, assetId: 999999 })).error).toMatchObject({ code: "unknown-asset" });
+    expect((await socket.emitWithAck("begin", { ...base, assetId: otherSiteMotor.assetId })).error).toMatchObject({ code: "wrong-site" });
+    expect((await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, sampleRate: 999.5 })).error.message).toMatch(/whole number of Hz/);
+    const other = await newGateway("Second gateway");
+    const otherSocket = await rawGateway(other.token);
+    const { sessionId } = await otherSocket.emitWithAck("begin", { ...base, assetId: motor.assetId });
+    expect((await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, resumeSessionId: sessionId })).error).toMatchObject({ code: "unknown-session" });
+    expect((await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 1) })).error).toMatchObject({ code: "unknown-session" });
+  });
+
+  it("abandons a session left untouched for days and refuses to resume it", async () => {
+    const socket = await rawGateway(token);
+    const base = { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
+    const { sessionId } = await socket.emitWithAck("begin", base);
+    await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) });
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(true);
+    await env.db("stream_sessions").where({ id: sessionId }).update({ updated_at: env.db.raw("now() - interval '3 days'") });
+    expect(await abandonStaleSessions(env.db, env.config, 48)).toBeGreaterThanOrEqual(1);
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
+    const resume = await socket.emitWithAck("begin", { ...base, resumeSessionId: sessionId });
+    expect(resume.error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/abandoned/) });
+  });
+
+  it("refuses a missing, unknown or revoked token, and disconnects a gateway when its token is revoked", async () => {
+    await expect(rawGateway(undefined)).rejects.toThrow(/No gateway token given/);
+    await expect(rawGateway("bhg_00000000_" + "x".repeat(43))).rejects.toThrow(/Unknown gateway token/);
+    await expect(rawGateway("secret")).rejects.toThrow(/not a gateway token/);
+
+    const doomed = await newGateway("Gateway to be revoked");
+    const socket = await rawGateway(doomed.token);
+    const told = nextEvent<StreamError>(socket, "stream:error");
+    const dropped = new Promise<string>((resolve) => socket.once("disconnect", resolve));
+    const admin = await signedIn(env.app, "admin");
+    expect((await admin.post(`/api/gateways/${doomed.id}/revoke`)).status).toBe(200);
+    expect(await told).toMatchObject({ code: "revoked", message: expect.stringMatching(/revoked by an admin/) });
+    expect(await dropped).toBe("io server disconnect");
+
+    await expect(rawGateway(doomed.token)).rejects.toThrow(/Gateway to be revoked.*was revoked/);
+    expect(await env.db("stream_sessions").where({ gateway_id: doomed.id }).count("* as n").first()).toMatchObject({ n: "0" });
+    expect(await env.db("captures").where({ gateway_id: doomed.id }).count("* as n").first()).toMatchObject({ n: "0" });
+  });
+
+  it("the command-line gateway streams a CSV and prints the capture id", async () => {
+    const original = syntheticCapture(0.5, 5000);
+    const file = path.join(dataDir, "fan-3.csv");
+    fs.writeFileSync(file, writeCsv(original));
+    const child = spawn(
+      process.execPath,
+      ["--import", "tsx", "workers/gateway-cli.ts", "--file", file, "--asset", String(motor.assetId), "--token", token, "--url", server.url, "--chunk-kb", "8"],
+      { cwd: ROOT, stdio: ["ignore", "pipe", "pipe"] },
+    );
+    let out = "";
+    let err = "";
+    child.stdout.on("data", (d) => (out += d));
+    child.stderr.on("data", (d) => (err += d));
+    const code = await new Promise<number | null>((resolve) => child.on("close", resolve));
+    expect(code, err).toBe(0);
+    const captureId = Number(out.trim());
+    expect(Number.isInteger(captureId) && captureId > 0, out).toBe(true);
+    expect(err).toMatch(/100 %/);
+    const { row, capture } = await storedCapture(captureId);
+    expect(row).toMatchObject({ source: "stream", gateway_id: gatewayId, sample_rate: 5000 });
+    expect(captureToF32Frames(capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+  });
+});

@@ -1,0 +1,122 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Socket } from "socket.io-client";
+import { makeTestEnv, type TestEnv } from "../helpers/context.ts";
+import { connectBrowser, nextEvent, sessionCookie, sleep, startTestServer, type TestServer } from "../helpers/realtime.ts";
+import { io as ioClient } from "socket.io-client";
+import { notifyEvent } from "../../server/events.ts";
+import { createGatewayToken } from "../../server/gateway/tokens.ts";
+import type { Realtime } from "../../server/realtime.ts";
+
+// Two "server processes" on one database: each has its own app, knex pool, socket.io server and adapter.
+let envA: TestEnv;
+let envB: TestEnv;
+let serverA: TestServer;
+let serverB: TestServer;
+const sockets: Socket[] = [];
+const track = (s: Socket) => (sockets.push(s), s);
+
+beforeAll(async () => {
+  envA = await makeTestEnv();
+  envB = await makeTestEnv();
+  serverA = await startTestServer(envA, { heartbeatIntervalMs: 200 });
+  serverB = await startTestServer(envB, { heartbeatIntervalMs: 200 });
+  // The adapters find each other by heartbeat over NOTIFY; once each counts two servers, both are listening.
+  const until = Date.now() + 10_000;
+  while ((await serverA.realtime.io.of("/").adapter.serverCount()) < 2 || (await serverB.realtime.io.of("/").adapter.serverCount()) < 2) {
+    if (Date.now() > until) throw new Error("the two servers' adapters did not see each other");
+    await sleep(50);
+  }
+});
+afterAll(async () => {
+  for (const s of sockets) s.close();
+  await serverA?.close();
+  await serverB?.close();
+  await envA?.close();
+  await envB?.close();
+});
+
+/** Count every arrival of an event on a socket. */
+function counter(socket: Socket, event: string) {
+  const seen: unknown[] = [];
+  socket.on(event, (p) => seen.push(p));
+  return seen;
+}
+
+async function until(check: () => boolean, ms = 5000) {
+  const end = Date.now() + ms;
+  while (!check()) {
+    if (Date.now() > end) throw new Error("timed out");
+    await sleep(20);
+  }
+}
+
+describe("live updates", () => {
+  it("a signed-in browser receives capture:status sent with notifyEvent (e.g. by the worker)", async () => {
+    const socket = track(await connectBrowser(serverA.url, await sessionCookie(envA.app, "technician")));
+    const got = nextEvent(socket, "capture:status");
+    await notifyEvent(envA.db, "capture:status", { id: 41, assetId: 7, status: "analysing" });
+    expect(await got).toEqual({ id: 41, assetId: 7, status: "analysing" });
+  });
+
+  it("refuses a client without a session cookie, or with a forged one", async () => {
+    await expect(connectBrowser(serverA.url)).rejects.toThrow("unauthorized");
+    await expect(connectBrowser(serverA.url, "bh_session=not-a-token")).rejects.toThrow("unauthorized");
+  });
+
+  it("sends review events only to roles that may read the review list", async () => {
+    const analyst = track(await connectBrowser(serverA.url, await sessionCookie(envA.app, "analyst")));
+    const tech = track(await connectBrowser(serverA.url, await sessionCookie(envA.app, "technician")));
+    const techSeen = counter(tech, "review:changed");
+    const got = nextEvent(analyst, "review:changed");
+    serverA.realtime.publish("review:changed", { captureId: 3 });
+    expect(await got).toEqual({ captureId: 3 });
+    // A fleet event published right after reaches the technician, so the review event had its chance to arrive too.
+    const fleet = nextEvent(tech, "finding:new");
+    serverA.realtime.publish("finding:new", { id: 1, assetId: 2, kind: "rotor", level: "R3" });
+    await fleet;
+    expect(techSeen).toEqual([]);
+  });
+
+  it("an event published on server A reaches a client on server B exactly once", async () => {
+    const onB = track(await connectBrowser(serverB.url, await sessionCookie(envB.app, "manager")));
+    const onA = track(await connectBrowser(serverA.url, await sessionCookie(envA.app, "planner")));
+    const seenB = counter(onB, "inspection:changed");
+    const seenA = counter(onA, "inspection:changed");
+    (serverA.realtime as Realtime).publish("inspection:changed", { id: 99 });
+    await until(() => seenA.length >= 1 && seenB.length >= 1);
+    await sleep(400); // give a duplicate time to show up
+    expect(seenB).toEqual([{ id: 99 }]);
+    expect(seenA).toEqual([{ id: 99 }]);
+  });
+
+  it("a NOTIFY from outside the servers reaches clients on both servers exactly once", async () => {
+    const onB = track(await connectBrowser(serverB.url, await sessionCookie(envB.app, "analyst")));
+    const onA = track(await connectBrowser(serverA.url, await sessionCookie(envA.app, "admin")));
+    const seenB = counter(onB, "capture:status");
+    const seenA = counter(onA, "capture:status");
+    await notifyEvent(envB.db, "capture:status", { id: 5, assetId: 1, status: "failed", error: "too short" });
+    await until(() => seenA.length >= 1 && seenB.length >= 1);
+    await sleep(400);
+    expect(seenA).toHaveLength(1);
+    expect(seenB).toHaveLength(1);
+  });
+
+  it("ctx.services.publish is wired by installRealtime", async () => {
+    const onB = track(await connectBrowser(serverB.url, await sessionCookie(envB.app, "technician")));
+    const got = nextEvent(onB, "capture:status");
+    (envA.ctx.services.publish as (e: string, p: unknown) => void)("capture:status", { id: 6, assetId: 1, status: "queued" });
+    expect(await got).toMatchObject({ id: 6, status: "queued" });
+  });
+
+  it("revoking on server A drops the gateway's connection on server B, telling it why", async () => {
+    const { token, prefix, hash } = createGatewayToken();
+    const [gw] = await envA.db("gateways").insert({ name: "Cross-server gateway", token_prefix: prefix, token_hash: hash }).returning("id");
+    const socket = track(ioClient(`${serverB.url}/gateway`, { auth: { token }, transports: ["websocket"], reconnection: false, forceNew: true }));
+    await new Promise<void>((resolve, reject) => socket.once("connect", () => resolve()).once("connect_error", reject));
+    const told = nextEvent(socket, "stream:error");
+    const dropped = new Promise((resolve) => socket.once("disconnect", resolve));
+    serverA.realtime.disconnectGateway(gw.id, "revoked for the test");
+    expect(await told).toEqual({ code: "revoked", message: "revoked for the test" });
+    expect(await dropped).toBe("io server disconnect");
+  });
+});
