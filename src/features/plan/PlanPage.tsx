@@ -1,0 +1,176 @@
+import { useState } from "react";
+import { Link, useSearchParams } from "react-router-dom";
+import { useQuery } from "@tanstack/react-query";
+import { Page, Section } from "../../components/Page.tsx";
+import { DataTable, useListParams, type Column } from "../../components/DataTable.tsx";
+import { Button } from "../../components/Button.tsx";
+import { Select } from "../../components/Form.tsx";
+import { GradeBadge } from "../../components/GradeBadge.tsx";
+import { ZoneBadge } from "../../components/ZoneBadge.tsx";
+import { Figure } from "../../components/Figure.tsx";
+import { InspectionStatusPill, PriorityTag } from "../../components/InspectionBits.tsx";
+import { EmptyState } from "../../components/EmptyState.tsx";
+import { apiUrl } from "../../lib/api.ts";
+import type { Finding, Inspection } from "../../lib/contracts.ts";
+import { formatDate, formatDateTime } from "../../lib/format.ts";
+import { parseGrade } from "../../lib/grades.ts";
+import { isOverdue, STATUS_LABEL, suggestPriority } from "../../lib/inspections.ts";
+import { inspectionsQueryOptions, openFindingsQueryOptions, techniciansQueryOptions } from "./api/inspections.ts";
+import { ScheduleDialog } from "./ScheduleDialog.tsx";
+import { InspectionDialog } from "./InspectionDialog.tsx";
+import { MonthView } from "./MonthView.tsx";
+import { formatMonthParam, parseMonth } from "./calendar.ts";
+
+export default function PlanPage() {
+  const [scheduling, setScheduling] = useState<{ finding: Finding | null } | null>(null);
+  const [opened, setOpened] = useState<Inspection | null>(null);
+  const list = useListParams({ pageSize: 25, sort: "dueDate", filters: ["status", "assigneeId"] });
+  const [sp, setSp] = useSearchParams();
+  const view = sp.get("view") === "month" ? "month" : "list";
+  const { year, month } = parseMonth(sp.get("month"));
+  const technicians = useQuery(techniciansQueryOptions());
+
+  const setView = (v: "list" | "month") =>
+    setSp((prev) => {
+      const n = new URLSearchParams(prev);
+      if (v === "list") n.delete("view");
+      else n.set("view", v);
+      return n;
+    }, { replace: true });
+  const shiftMonth = (delta: number) =>
+    setSp((prev) => {
+      const n = new URLSearchParams(prev);
+      n.set("month", formatMonthParam(year, month + delta));
+      return n;
+    }, { replace: true });
+
+  const exportFilters = { status: list.filters.status, assigneeId: list.filters.assigneeId };
+  return (
+    <Page
+      title="Plan"
+      description="Open findings that need someone on site, and the inspections planned for them."
+      wide
+      actions={
+        <>
+          <a className="rounded-md border border-line-strong bg-surface px-3 py-1.5 font-medium text-ink no-underline hover:bg-sunken" href={apiUrl("/inspections.csv", exportFilters)} download>
+            Export CSV
+          </a>
+          <a className="rounded-md border border-line-strong bg-surface px-3 py-1.5 font-medium text-ink no-underline hover:bg-sunken" href={apiUrl("/inspections.ics", exportFilters)} download>
+            Calendar file (.ics)
+          </a>
+          <Button variant="primary" onClick={() => setScheduling({ finding: null })}>
+            Schedule inspection
+          </Button>
+        </>
+      }
+    >
+      <div className="flex flex-col gap-6">
+        <NeedsAction onSchedule={(f) => setScheduling({ finding: f })} />
+
+        <Section
+          title="Inspections"
+          actions={
+            <div role="group" aria-label="View" className="inline-flex overflow-hidden rounded-md border border-line-strong">
+              {(["list", "month"] as const).map((v) => (
+                <button key={v} type="button" aria-pressed={view === v} onClick={() => setView(v)} className={`px-3 py-1 text-caption font-medium ${view === v ? "bg-brand text-brand-ink" : "bg-surface text-ink-muted hover:bg-sunken"}`}>
+                  {v === "list" ? "List" : "Month"}
+                </button>
+              ))}
+            </div>
+          }
+        >
+          <div className="mb-3 flex flex-wrap items-end gap-3">
+            <label className="flex flex-col gap-1 text-caption text-ink-muted">
+              Status
+              <Select value={list.filters.status} onChange={(e) => list.setFilter("status", e.target.value)} className="w-40">
+                <option value="">All</option>
+                {Object.entries(STATUS_LABEL).map(([v, l]) => (
+                  <option key={v} value={v}>{l}</option>
+                ))}
+              </Select>
+            </label>
+            <label className="flex flex-col gap-1 text-caption text-ink-muted">
+              Technician
+              <Select value={list.filters.assigneeId} onChange={(e) => list.setFilter("assigneeId", e.target.value)} className="w-48">
+                <option value="">Everyone</option>
+                {technicians.data?.map((t) => (
+                  <option key={t.id} value={t.id}>{t.name}</option>
+                ))}
+              </Select>
+            </label>
+          </div>
+          {view === "list" ? (
+            <InspectionList list={list} onOpen={setOpened} />
+          ) : (
+            <MonthView year={year} month={month} filters={list.filters} onMonth={shiftMonth} onOpen={setOpened} />
+          )}
+        </Section>
+      </div>
+
+      <ScheduleDialog open={!!scheduling} finding={scheduling?.finding} onClose={() => setScheduling(null)} />
+      <InspectionDialog inspection={opened} onClose={() => setOpened(null)} />
+    </Page>
+  );
+}
+
+function NeedsAction({ onSchedule }: { onSchedule: (f: Finding) => void }) {
+  const [page, setPage] = useState(1);
+  const q = useQuery(openFindingsQueryOptions({ page, pageSize: 10, sort: "-createdAt" }));
+  const columns: Column<Finding>[] = [
+    { id: "motor", header: "Motor", cell: (f) => (<span><Link to={`/motors/${f.assetId}`} className="num font-medium">{f.assetTag}</Link> <span className="text-ink-muted">{f.assetName}</span></span>) },
+    { id: "site", header: "Site", cell: (f) => f.siteName, hideBelow: "md" },
+    { id: "level", header: "Now", cell: (f) => (parseGrade(f.level) ? <GradeBadge compact grade={f.level} /> : <ZoneBadge zone={f.level} withWord />) },
+    { id: "summary", header: "Finding", cell: (f) => <span className="line-clamp-2">{f.summary}</span> },
+    { id: "load", header: "Load", numeric: true, cell: (f) => <Figure value={f.loadPct} unit="%" />, hideBelow: "lg" },
+    { id: "raised", header: "Raised", cell: (f) => <span className="num text-caption text-ink-muted">{formatDateTime(f.createdAt)}</span>, hideBelow: "md" },
+    { id: "suggest", header: "Suggested", cell: (f) => <PriorityTag priority={suggestPriority(f)} /> },
+    { id: "act", header: <span className="sr-only">Action</span>, cell: (f) => <Button size="sm" variant="primary" onClick={() => onSchedule(f)}>Schedule</Button> },
+  ];
+  return (
+    <Section title="Needs action">
+      <DataTable
+        caption="Open findings"
+        columns={columns}
+        rows={q.data?.items}
+        rowKey={(f) => f.id}
+        total={q.data?.total}
+        page={page}
+        pageSize={10}
+        onPageChange={setPage}
+        loading={q.isPending}
+        error={q.error}
+        empty={<EmptyState title="No open findings">When a motor's rotor grade or vibration zone gets worse, the finding appears here.</EmptyState>}
+      />
+    </Section>
+  );
+}
+
+function InspectionList({ list, onOpen }: { list: ReturnType<typeof useListParams>; onOpen: (i: Inspection) => void }) {
+  const q = useQuery(inspectionsQueryOptions(list.query));
+  const columns: Column<Inspection>[] = [
+    { id: "due", header: "Due", sortKey: "dueDate", cell: (i) => <span className={`num ${isOverdue(i) ? "font-semibold text-danger" : ""}`}>{formatDate(i.dueDate)}{isOverdue(i) && <span className="ml-1 font-sans text-caption">overdue</span>}</span> },
+    { id: "motor", header: "Motor", sortKey: "assetTag", cell: (i) => <span className="num font-medium">{i.assetTag ?? `#${i.assetId}`}</span> },
+    { id: "title", header: "Inspection", sortKey: "title", cell: (i) => i.title },
+    { id: "assignee", header: "Technician", sortKey: "assigneeName", cell: (i) => i.assigneeName ?? <span className="text-ink-faint">Nobody</span>, hideBelow: "md" },
+    { id: "priority", header: "Priority", sortKey: "priority", cell: (i) => <PriorityTag priority={String(i.priority)} /> },
+    { id: "status", header: "Status", sortKey: "status", cell: (i) => <InspectionStatusPill status={i.status} /> },
+  ];
+  return (
+    <DataTable
+      caption="Inspections"
+      columns={columns}
+      rows={q.data?.items}
+      rowKey={(i) => i.id}
+      total={q.data?.total}
+      page={list.page}
+      pageSize={list.pageSize}
+      sort={list.sort}
+      onSortChange={list.setSort}
+      onPageChange={list.setPage}
+      loading={q.isPending}
+      error={q.error}
+      onRowClick={onOpen}
+      empty={<EmptyState title="No inspections match">Schedule one from a finding above, or change the filters.</EmptyState>}
+    />
+  );
+}

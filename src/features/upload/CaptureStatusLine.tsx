@@ -1,0 +1,43 @@
+import { Link } from "react-router-dom";
+import { useQuery } from "@tanstack/react-query";
+import { captureQueryOptions } from "./api/captures.ts";
+import { STATUS_STEPS, stepIndex } from "./upload-logic.ts";
+import { GradeBadge } from "../../components/GradeBadge.tsx";
+
+/** Live state of one uploaded capture: steps received → queued → analysing → analysed, or failed with its reason. */
+export function CaptureStatusLine({ id, initialStatus = "received" }: { id: number; initialStatus?: string }) {
+  const q = useQuery(captureQueryOptions(id));
+  const status = q.data?.status ?? initialStatus;
+  const failed = status === "failed";
+  const at = stepIndex(status);
+  const analysis = q.data?.analysis as { rotorGrade?: unknown; rotorAssessable?: boolean; notAssessableReason?: string } | null | undefined;
+  return (
+    <div className="flex flex-wrap items-center gap-x-3 gap-y-1 text-caption" data-testid="capture-status" data-status={status}>
+      <ol className="flex items-center gap-1" aria-label={`Capture ${id}: ${status}`}>
+        {STATUS_STEPS.map((s, i) => {
+          const reached = i <= at;
+          const isFail = failed && i === at;
+          return (
+            <li key={s.status} className="flex items-center gap-1">
+              <span
+                aria-hidden="true"
+                className={`size-2 rounded-full ${isFail ? "bg-danger" : reached ? (i === at && status !== "analysed" ? "animate-pulse bg-brand" : "bg-brand") : "bg-line-strong"}`}
+              />
+              <span className={isFail ? "font-semibold text-danger" : i === at ? "font-semibold text-ink" : reached ? "text-ink-muted" : "text-ink-faint"}>
+                {isFail ? "Failed" : s.label}
+              </span>
+              {i < STATUS_STEPS.length - 1 && <span aria-hidden="true" className="mx-0.5 text-ink-faint">›</span>}
+            </li>
+          );
+        })}
+      </ol>
+      {failed && q.data?.error && <span className="text-danger">{q.data.error}</span>}
+      {status === "analysed" && analysis && "rotorGrade" in analysis && (
+        <GradeBadge compact grade={analysis.rotorGrade} assessable={analysis.rotorAssessable} reason={analysis.notAssessableReason} />
+      )}
+      <Link to={`/captures/${id}`} className="ml-auto">
+        Open capture <span className="num">#{id}</span>
+      </Link>
+    </div>
+  );
+}

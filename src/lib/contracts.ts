@@ -1,0 +1,208 @@
+// Response shapes of the server API (docs/api.md), as TypeScript types for the client. Field names are camelCase.
+// Values the contract leaves open (e.g. how a grade is spelled) are typed loosely and normalised in lib/grades.ts.
+import type { Permission, Role } from "../../server/permissions.ts";
+
+export type { Permission, Role };
+export { ROLES } from "../../server/permissions.ts";
+
+export interface SessionUser {
+  id: number;
+  email: string;
+  name: string;
+  role: Role;
+}
+export interface Me {
+  user: SessionUser;
+  permissions: Permission[];
+}
+
+export interface Area {
+  id: number;
+  name: string;
+}
+export interface Site {
+  id: number;
+  code: string;
+  name: string;
+  timezone: string;
+  areas: Area[];
+}
+
+/** R1..R5 as a number or "R3"; null when there is no grade. */
+export type GradeValue = number | string | null;
+
+export interface LatestReading {
+  analysisId: number;
+  captureId: number;
+  takenAt: string;
+  rotorGrade: GradeValue;
+  rotorAssessable: boolean | null;
+  sidebandDb: number | null;
+  loadPct: number | null;
+  slip: number | null;
+  rpm: number | null;
+  supplyHz: number | null;
+  vibrationRms: number | null;
+  vibrationZone: string | null;
+}
+
+export interface Asset {
+  id: number;
+  tag: string;
+  name: string;
+  areaId: number;
+  areaName: string;
+  siteId: number;
+  siteName: string;
+  drivenEquipment: string | null;
+  criticality: string | number | null;
+  ratedKw: number | null;
+  ratedVoltage: number | null;
+  ratedCurrent: number | null;
+  ratedHz: number | null;
+  ratedRpm: number | null;
+  poles: number | null;
+  rotorBars: number | null;
+  statorSlots: number | null;
+  designLetter: string | null;
+  efficiencyClass: string | null;
+  efficiencyPct: number | null;
+  powerFactor: number | null;
+  connection: string | null;
+  driveFed: boolean | null;
+  machineGroup: string | number | null;
+  support: string | null;
+  nameplateVersion: number;
+  latest: LatestReading | null;
+  openFindings: number;
+}
+
+export interface MeasurementPoint {
+  id: number;
+  name: string;
+  kind: string;
+  position: string | null;
+  ctRatio: number | null;
+  sensitivity: number | null;
+  unit: string | null;
+}
+export interface AssetDetail extends Asset {
+  measurementPoints: MeasurementPoint[];
+}
+
+export type CaptureStatus = "received" | "queued" | "analysing" | "analysed" | "failed";
+
+export interface Capture {
+  id: number;
+  assetId: number;
+  assetTag: string;
+  assetName: string;
+  takenAt: string | null;
+  takenBy: string | number | null;
+  source: string;
+  fileName: string | null;
+  format: string | null;
+  sampleRate: number | null;
+  durationS: number | null;
+  channels: { name: string; kind: string; unit: string; position?: string | null }[];
+  status: CaptureStatus;
+  error: string | null;
+  notes: string | null;
+  createdAt: string;
+  analysis: (Record<string, unknown> & { id: number; version: number; engineVersion: string }) | null;
+}
+
+export interface Finding {
+  id: number;
+  assetId: number;
+  assetTag: string;
+  assetName: string;
+  siteName: string;
+  kind: string;
+  level: GradeValue;
+  previousLevel: GradeValue;
+  summary: string;
+  status: string;
+  createdAt: string;
+  captureId: number | null;
+  analysisId: number | null;
+  loadPct: number | null;
+  criticality: string | number | null;
+  verdicts: { verdict: string; note?: string; by?: string; at?: string; createdAt?: string }[];
+}
+
+export type InspectionStatus = "planned" | "in_progress" | "done" | "cancelled";
+export type Priority = "low" | "normal" | "high" | "urgent";
+
+export interface InspectionEvent {
+  id: number;
+  at: string;
+  /** created, status, rescheduled, reassigned, changed, attachment, … */
+  kind: string;
+  from: string | null;
+  to: string | null;
+  byId: number | null;
+  byName: string | null;
+  note: string | null;
+  details?: unknown;
+}
+
+export interface Inspection {
+  id: number;
+  assetId: number;
+  assetTag?: string;
+  assetName?: string;
+  siteName?: string;
+  findingId: number | null;
+  title: string;
+  instructions: string | null;
+  dueDate: string;
+  assigneeId: number | null;
+  assigneeName?: string | null;
+  priority: Priority | string;
+  status: InspectionStatus;
+  outcome?: string | null;
+  completionNote?: string | null;
+  createdAt?: string;
+  updatedAt?: string;
+  overdue?: boolean;
+  criticality?: string | null;
+  completedAt?: string | null;
+  /** Only on GET /inspections/:id. */
+  events?: InspectionEvent[];
+  attachments?: { id: number; fileName: string; contentType: string; size: number; captureId: number | null; createdAt: string; url: string }[];
+}
+
+export interface Person {
+  id: number;
+  name: string;
+  role: Role;
+}
+
+export interface User extends SessionUser {
+  active: boolean;
+  invited: boolean;
+  lastSignInAt: string | null;
+  createdAt: string;
+}
+
+export interface Gateway {
+  id: number;
+  name: string;
+  siteId: number;
+  siteName?: string;
+  createdAt?: string;
+  lastSeenAt?: string | null;
+  revokedAt?: string | null;
+  active?: boolean;
+}
+
+export interface CaughtMail {
+  id: number;
+  receivedAt: string;
+  from: string;
+  to: string;
+  subject: string;
+  text: string;
+  attachments: { filename: string; contentType: string; size: number }[];
+}

@@ -1,0 +1,110 @@
+// Inspection rules shared by Plan and My work: statuses, allowed moves, priorities and their suggested due dates.
+import { z } from "zod";
+import type { InspectionStatus, Priority } from "./contracts.ts";
+import { parseGrade } from "./grades.ts";
+
+export const STATUS_LABEL: Record<InspectionStatus, string> = {
+  planned: "Planned",
+  in_progress: "In progress",
+  done: "Done",
+  cancelled: "Cancelled",
+};
+
+/** planned → in progress → done, and planned / in progress → cancelled. Done and cancelled are final (as on the server). */
+export const TRANSITIONS: Record<InspectionStatus, InspectionStatus[]> = {
+  planned: ["in_progress", "cancelled"],
+  in_progress: ["done", "cancelled"],
+  done: [],
+  cancelled: [],
+};
+
+export const TRANSITION_LABEL: Record<string, string> = {
+  "planned>in_progress": "Start",
+  "planned>cancelled": "Cancel",
+  "in_progress>done": "Mark done",
+  "in_progress>cancelled": "Cancel",
+};
+
+export function allowedMoves(status: InspectionStatus, role: "planner" | "technician"): InspectionStatus[] {
+  const moves = TRANSITIONS[status] ?? [];
+  // A technician only moves their own work forward: start it, finish it.
+  return role === "technician" ? moves.filter((s) => (status === "planned" && s === "in_progress") || (status === "in_progress" && s === "done")) : moves;
+}
+
+export const PRIORITIES: { value: Priority; label: string; days: number }[] = [
+  { value: "urgent", label: "Urgent", days: 2 },
+  { value: "high", label: "High", days: 7 },
+  { value: "normal", label: "Normal", days: 21 },
+  { value: "low", label: "Low", days: 42 },
+];
+
+/** Criticality values that count as "high": A, 1, "high", "critical". */
+export function isHighCriticality(c: unknown): boolean {
+  if (c === null || c === undefined) return false;
+  const s = String(c).trim().toLowerCase();
+  return s === "a" || s === "1" || s === "high" || s === "critical";
+}
+
+/** A starting priority for a finding: by the grade (or zone) it reached, one step up for critical motors. */
+export function suggestPriority(finding: { kind?: string; level?: unknown; criticality?: unknown }): Priority {
+  const order: Priority[] = ["low", "normal", "high", "urgent"];
+  let idx = 0;
+  const grade = parseGrade(finding.level);
+  const zone = typeof finding.level === "string" ? finding.level.trim().toUpperCase() : "";
+  if (grade) idx = grade >= 5 ? 3 : grade === 4 ? 2 : grade === 3 ? 1 : 0;
+  else if (zone === "D") idx = 3;
+  else if (zone === "C") idx = 2;
+  else if (zone === "B") idx = 1;
+  if (isHighCriticality(finding.criticality)) idx = Math.min(3, idx + 1);
+  return order[idx];
+}
+
+/** Due date (YYYY-MM-DD, local) for a priority, counted from `from`. */
+export function suggestDueDate(priority: Priority, from: Date = new Date()): string {
+  const days = PRIORITIES.find((p) => p.value === priority)?.days ?? 21;
+  const d = new Date(from.getFullYear(), from.getMonth(), from.getDate() + days);
+  const p2 = (n: number) => String(n).padStart(2, "0");
+  return `${d.getFullYear()}-${p2(d.getMonth() + 1)}-${p2(d.getDate())}`;
+}
+
+export function todayIso(now: Date = new Date()): string {
+  const p2 = (n: number) => String(n).padStart(2, "0");
+  return `${now.getFullYear()}-${p2(now.getMonth() + 1)}-${p2(now.getDate())}`;
+}
+
+export function isOverdue(i: { dueDate: string; status: string }, now: Date = new Date()): boolean {
+  return (i.status === "planned" || i.status === "in_progress") && i.dueDate.slice(0, 10) < todayIso(now);
+}
+
+const idField = (msg: string) => z.preprocess((v) => (v === "" || v === undefined || v === null ? undefined : Number(v)), z.number({ message: msg }).int().positive(msg));
+
+/** The planner's schedule form (POST /inspections). */
+export const scheduleSchema = z.object({
+  assetId: idField("Pick a motor."),
+  findingId: z.preprocess((v) => (v === "" || v === undefined || v === null ? undefined : Number(v)), z.number().int().positive().optional()),
+  title: z.string().trim().min(1, "Give the inspection a title.").max(200, "Keep the title under 200 characters."),
+  instructions: z.string().trim().max(10_000, "Keep instructions under 10,000 characters."),
+  dueDate: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, "Pick a due date.")
+    .refine((d) => d >= todayIso(), "The due date is in the past."),
+  assigneeId: idField("Pick a technician."),
+  priority: z.enum(["low", "normal", "high", "urgent"], { message: "Pick a priority." }),
+});
+export type ScheduleInput = z.output<typeof scheduleSchema>;
+
+export const OUTCOMES: { value: string; label: string }[] = [
+  { value: "no_fault_found", label: "No fault found" },
+  { value: "fault_confirmed", label: "Fault confirmed" },
+  { value: "repaired", label: "Repaired on site" },
+  { value: "remeasure", label: "Measure again" },
+  { value: "other", label: "Other (see note)" },
+];
+
+/** The technician's completion form (PATCH /inspections/:id with status done). */
+export const completeSchema = z
+  .object({
+    outcome: z.enum(["no_fault_found", "fault_confirmed", "repaired", "remeasure", "other"], { message: "Pick an outcome." }),
+    completionNote: z.string().trim().min(1, "Say what was found and done.").max(10_000, "Keep the note under 10,000 characters."),
+  });
+export type CompleteInput = z.output<typeof completeSchema>;

@@ -1,0 +1,58 @@
+// Live updates: one socket.io connection (same origin, the session cookie authenticates the handshake). Each
+// server event maps to the cache families it makes stale; screens never refetch by hand.
+import { io, type Socket } from "socket.io-client";
+import type { QueryClient, QueryKey } from "@tanstack/react-query";
+import { rootKeys } from "./query.ts";
+
+export interface ServerEvents {
+  "capture:status": (e: { id: number; assetId: number; status: string; error?: string | null }) => void;
+  "finding:new": (e: { id: number; assetId: number; kind: string; level: unknown }) => void;
+  "inspection:changed": (e: { id: number }) => void;
+}
+export type ServerEventName = keyof ServerEvents;
+
+/** Which query families each event invalidates (prefix match). */
+export const EVENT_INVALIDATIONS: Record<ServerEventName, readonly QueryKey[]> = {
+  "capture:status": [rootKeys.captures, rootKeys.assets, rootKeys.review, rootKeys.fleet, rootKeys.findings],
+  "finding:new": [rootKeys.findings, rootKeys.review, rootKeys.fleet, rootKeys.assets],
+  "inspection:changed": [rootKeys.inspections, rootKeys.fleet],
+};
+
+type Listener = (payload: unknown) => void;
+const listeners = new Map<ServerEventName, Set<Listener>>();
+let socket: Socket | null = null;
+
+/** Connect (once) and wire events to the query cache. Returns a function that disconnects. */
+export function connectSocket(queryClient: QueryClient): () => void {
+  if (socket) return disconnectSocket;
+  const s = io({ withCredentials: true, transports: ["websocket", "polling"], reconnectionDelayMax: 10_000 });
+  socket = s;
+  for (const event of Object.keys(EVENT_INVALIDATIONS) as ServerEventName[]) {
+    s.on(event as string, (payload: unknown) => {
+      for (const key of EVENT_INVALIDATIONS[event]) void queryClient.invalidateQueries({ queryKey: key });
+      for (const fn of listeners.get(event) ?? []) fn(payload);
+    });
+  }
+  // After a reconnect we may have missed events: refresh what they would have touched.
+  s.io.on("reconnect", () => {
+    for (const keys of Object.values(EVENT_INVALIDATIONS)) for (const key of keys) void queryClient.invalidateQueries({ queryKey: key });
+  });
+  return disconnectSocket;
+}
+
+export function disconnectSocket() {
+  socket?.disconnect();
+  socket = null;
+}
+
+/** Listen to one server event (e.g. to update an upload row at once). Returns the unsubscribe function. */
+export function onServerEvent<E extends ServerEventName>(event: E, fn: (payload: Parameters<ServerEvents[E]>[0]) => void): () => void {
+  let set = listeners.get(event);
+  if (!set) listeners.set(event, (set = new Set()));
+  set.add(fn as Listener);
+  return () => set!.delete(fn as Listener);
+}
+
+export function isSocketConnected(): boolean {
+  return !!socket?.connected;
+}
