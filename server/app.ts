@@ -13,9 +13,16 @@ import { userRoutes } from "./routes/users.ts";
 import { outboxRoutes } from "./routes/outbox.ts";
 import { auditRoutes } from "./routes/audit.ts";
 import { motorModelRouter } from "./routes/motor-model.ts";
+import { gatewayRoutes } from "./routes/gateways.ts";
+import { inspectionRoutes } from "./routes/inspections.ts";
+import { fleetRoutes } from "./routes/fleet.ts";
+import { siteRoutes } from "./routes/sites.ts";
+import { assetRoutes } from "./routes/assets.ts";
+import { captureRoutes } from "./routes/captures.ts";
+import { findingRoutes } from "./routes/findings.ts";
 
 /** Route modules, in mount order. Each returns an express Router whose routes declare their permission. */
-const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes];
+const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, captureRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, fleetRoutes];
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();

@@ -7,6 +7,8 @@ import { createApp } from "./app.ts";
 import { createMailer } from "./mail/mailer.ts";
 import { startMailFake } from "./mail/fake-smtp.ts";
 import type { AppContext } from "./context.ts";
+import { installRealtime } from "./realtime.ts";
+import { installPipeline } from "./captures/pipeline.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 
@@ -23,6 +25,8 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   const fake = config.mailFake ? await startMailFake({ db, port: config.smtp.port, host: "127.0.0.1" }) : null;
   if (fake) config.smtp.port = fake.port;
   const ctx: AppContext = { db, config, mailer: createMailer(config), services: {} };
+  await installPipeline(ctx); // blob store + job queue: services.blob, services.queue
+  installRealtime(ctx); // socket.io (live updates, gateway streams): onHttpServer + onClose hooks, services.publish
   const app = createApp(ctx, { staticDir: path.join(ROOT, "dist") });
   const server = http.createServer(app);
   const hooks = (ctx.services.onHttpServer as ((s: http.Server) => Promise<void> | void)[] | undefined) ?? [];

@@ -1,0 +1,139 @@
+// Capture pipeline benchmark (npm run bench:pipeline): a throw-away PostgreSQL cluster (.data/pg-bench, port
+// 55440), the real server on a free port and 1, then 2, worker processes. Uploads N captures of ~2 MB through
+// the API, C at a time, and prints captures/minute, p50/p95 upload-to-analysed latency, and checks that every
+// capture was analysed exactly once. Env: BENCH_CAPTURES (200), BENCH_CONCURRENCY (20),
+// BENCH_WORKER_CONCURRENCY (threads per worker process, 1), BENCH_KEEP=1 keeps the cluster.
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { loadConfig } from "../server/config.ts";
+import { createKnex, ensureDatabase } from "../server/db.ts";
+import { startServer } from "../server/index.ts";
+import { seedDemoUsers, DEMO_PASSWORD, DEMO_USERS } from "../server/seed/demo-users.ts";
+import { synthCapture } from "../src/engine/synth.ts";
+import { writeCsv } from "../src/engine/parse/index.ts";
+
+const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
+const N = Number(process.env.BENCH_CAPTURES ?? 200);
+const CONC = Number(process.env.BENCH_CONCURRENCY ?? 20);
+const THREADS = process.env.BENCH_WORKER_CONCURRENCY ?? "1";
+const PG_ENV = { ...process.env, PG_DIR: path.join(ROOT, ".data/pg-bench"), PGPORT: "55440" };
+
+function pg(cmd: string): string {
+  const r = spawnSync("bash", [path.join(ROOT, "scripts/pg.sh"), cmd], { env: PG_ENV, encoding: "utf8" });
+  if (r.status !== 0) throw new Error(`scripts/pg.sh ${cmd} failed: ${r.stderr}`);
+  return r.stdout.trim();
+}
+
+function startWorker(databaseUrl: string, dataDir: string): Promise<ChildProcess> {
+  const proc = spawn(process.execPath, ["--import", "tsx", "workers/worker.ts"], {
+    cwd: ROOT,
+    env: { ...process.env, NODE_ENV: "development", DATABASE_URL: databaseUrl, DATA_DIR: dataDir, WORKER_CONCURRENCY: THREADS, BARHOUND_WORKER_IDLE_MS: "50" },
+    stdio: ["ignore", "pipe", "inherit"],
+  });
+  return new Promise((resolve, reject) => {
+    let out = "";
+    proc.stdout!.on("data", (b: Buffer) => {
+      out += b.toString();
+      if (out.includes("worker ready")) resolve(proc);
+    });
+    proc.once("exit", (c) => reject(new Error(`worker exited (${c}): ${out}`)));
+  });
+}
+
+const pct = (xs: number[], p: number) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s[Math.min(s.length - 1, Math.max(0, Math.ceil((p / 100) * s.length) - 1))];
+};
+
+async function main() {
+  pg("destroy");
+  const base = pg("start");
+  const databaseUrl = base.replace(/\/postgres$/, "/barhound_bench");
+  await ensureDatabase(databaseUrl);
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "barhound-bench-"));
+  // env "test" only to keep the per-request log quiet; the server otherwise runs as in development.
+  const config = loadConfig({ ...process.env, NODE_ENV: "test", JWT_SECRET: "bench-only-secret", DATABASE_URL: databaseUrl, PORT: "0", DATA_DIR: dataDir, MAIL_FAKE: "false", BLOB_DRIVER: "fs" });
+  const server = await startServer(config);
+  const db = server.ctx.db;
+  await seedDemoUsers(db);
+  const url = `http://127.0.0.1:${server.port}`;
+  const tech = DEMO_USERS.find((u) => u.role === "technician")!;
+  const login = await fetch(`${url}/api/auth/login`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ email: tech.email, password: DEMO_PASSWORD }) });
+  const cookie = (login.headers.get("set-cookie") ?? "").split(";")[0];
+
+  // Ten distinct ~1.5–2 MB three-phase captures, reused round-robin.
+  const files = Array.from({ length: 10 }, (_, i) =>
+    Buffer.from(writeCsv(synthCapture({ poles: 4, slip: 0.02 + i * 0.001, sampleRate: 5000, durationS: 14, phases: 3, brokenBars: i % 3, seed: 100 + i }).capture, { timeColumn: false, digits: 6 })),
+  );
+  console.log(`capture files: ${(files.reduce((s, f) => s + f.length, 0) / files.length / 1e6).toFixed(2)} MB average; ${os.cpus().length} CPUs`);
+  const [site] = await db("sites").insert({ code: `BENCH${Date.now() % 1e6}`, name: "Bench site" }).returning("id");
+  const [area] = await db("areas").insert({ site_id: site.id, name: "Bench area" }).returning("id");
+
+  const results: string[] = [];
+  for (const workers of [1, 2]) {
+    const [asset] = await db("assets").insert({ area_id: area.id, tag: `BENCH-${workers}-${Date.now()}`, name: "Bench motor", rated_rpm: 1470, poles: 4, rated_hz: 50, rated_kw: 30, rated_voltage: 400, rated_current: 55, rotor_bars: 28 }).returning("id");
+    const procs = await Promise.all(Array.from({ length: workers }, () => startWorker(databaseUrl, dataDir)));
+    const started = new Map<number, number>();
+    let next = 0;
+    let failedUploads = 0;
+    const t0 = Date.now();
+    await Promise.all(
+      Array.from({ length: CONC }, async () => {
+        while (next < N) {
+          const i = next++;
+          const form = new FormData();
+          form.set("assetId", String(asset.id));
+          form.set("takenAt", new Date(Date.UTC(2026, 10, 1) + i * 60_000).toISOString());
+          form.append("file", new Blob([files[i % files.length]]), `bench-${i}.csv`);
+          const at = Date.now();
+          const res = await fetch(`${url}/api/captures`, { method: "POST", body: form, headers: { cookie } });
+          if (res.status !== 202) {
+            failedUploads++;
+            console.error("upload failed", res.status, await res.text());
+            continue;
+          }
+          const body = (await res.json()) as { captures: { id: number }[] };
+          started.set(body.captures[0].id, at);
+        }
+      }),
+    );
+    const uploadS = (Date.now() - t0) / 1000;
+    const ids = [...started.keys()];
+    for (;;) {
+      const [{ n }] = await db("captures").whereIn("id", ids).whereIn("status", ["analysed", "failed"]).count({ n: "*" });
+      if (Number(n) === ids.length) break;
+      if (Date.now() - t0 > 15 * 60_000) throw new Error("timed out waiting for analyses");
+      await new Promise((r) => setTimeout(r, 200));
+    }
+    const rows = await db("captures").whereIn("id", ids).select("id", "status", "analysed_at");
+    const counts = await db("analyses").whereIn("capture_id", ids).groupBy("capture_id").select("capture_id").count({ n: "*" });
+    const lat = rows.filter((r) => r.analysed_at).map((r) => new Date(r.analysed_at).getTime() - started.get(r.id)!);
+    const end = Math.max(...rows.map((r) => new Date(r.analysed_at ?? 0).getTime()));
+    const perMin = (ids.length / ((end - t0) / 1000)) * 60;
+    const once = counts.length === ids.length && counts.every((c) => Number(c.n) === 1);
+    const failed = rows.filter((r) => r.status !== "analysed").length;
+    const line =
+      `${workers} worker${workers > 1 ? "s" : " "} × ${THREADS} thread(s): ${perMin.toFixed(0)} captures/min · uploads done in ${uploadS.toFixed(1)} s · ` +
+      `latency p50 ${(pct(lat, 50) / 1000).toFixed(2)} s, p95 ${(pct(lat, 95) / 1000).toFixed(2)} s · ` +
+      `${ids.length}/${N} stored, ${failedUploads} refused, ${failed} not analysed, exactly once: ${once ? "yes" : "NO"}`;
+    console.log(line);
+    results.push(line);
+    for (const p of procs) p.kill("SIGTERM");
+    await Promise.all(procs.map((p) => new Promise((r) => (p.exitCode !== null ? r(null) : p.once("exit", r)))));
+  }
+  await server.close();
+  fs.rmSync(dataDir, { recursive: true, force: true });
+  if (process.env.BENCH_KEEP !== "1") pg("destroy");
+  console.log("\n" + results.join("\n"));
+}
+
+main().catch((err) => {
+  console.error(err);
+  try {
+    if (process.env.BENCH_KEEP !== "1") pg("destroy");
+  } catch {}
+  process.exit(1);
+});

@@ -1,0 +1,121 @@
+// Upload intake: multipart files are streamed by multer to a private temp folder under dataDir (never held
+// whole in memory while receiving), checked by content, parsed with the engine's parser, then handed to
+// storeCapturesAndQueue. The temp folder is removed whatever happens.
+import fsp from "node:fs/promises";
+import path from "node:path";
+import crypto from "node:crypto";
+import multer from "multer";
+import type { Request, Response } from "express";
+import { CaptureParseError, parseCapture, sniffFormat } from "../../src/engine/parse/index.ts";
+import type { AppContext } from "../context.ts";
+import { HttpError } from "../errors.ts";
+import { summariseCapture } from "./engine-io.ts";
+import type { CaptureMeta } from "./ingest.ts";
+
+export const MAX_FILES_PER_UPLOAD = 20;
+
+export interface ReceivedFile {
+  fileName: string;
+  path: string;
+  size: number;
+}
+
+/** Receive the multipart body into a fresh temp folder. Returns the folder (to remove) and the form. */
+export async function receiveMultipart(ctx: AppContext, req: Request, res: Response): Promise<{ dir: string; files: ReceivedFile[]; fields: Record<string, unknown> }> {
+  const dir = path.resolve(ctx.config.dataDir, "tmp", `upload-${crypto.randomUUID()}`);
+  await fsp.mkdir(dir, { recursive: true });
+  const upload = multer({
+    storage: multer.diskStorage({ destination: dir, filename: (_req, _file, cb) => cb(null, crypto.randomUUID()) }),
+    limits: { fileSize: ctx.config.uploadLimitBytes, files: MAX_FILES_PER_UPLOAD, fields: 50, fieldSize: 64 * 1024 },
+  }).array("file", MAX_FILES_PER_UPLOAD);
+  try {
+    await new Promise<void>((resolve, reject) => upload(req, res, (err: unknown) => (err ? reject(err) : resolve())));
+  } catch (err) {
+    await fsp.rm(dir, { recursive: true, force: true });
+    throw multerError(err, ctx.config.uploadLimitBytes);
+  }
+  const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => ({ fileName: f.originalname, path: f.path, size: f.size }));
+  return { dir, files, fields: { ...(req.body ?? {}) } };
+}
+
+function multerError(err: unknown, limit: number): unknown {
+  const e = err as { code?: string; field?: string; message?: string };
+  const mb = (limit / 1024 / 1024).toFixed(limit < 1024 * 1024 ? 2 : 0);
+  switch (e.code) {
+    case "LIMIT_FILE_SIZE":
+      return new HttpError(413, `The file is larger than the upload limit of ${mb} MB. Split the recording or shorten it.`, { file: `Larger than ${mb} MB` }, "too-large");
+    case "LIMIT_FILE_COUNT":
+      return new HttpError(400, `At most ${MAX_FILES_PER_UPLOAD} files per upload.`, { file: `At most ${MAX_FILES_PER_UPLOAD} files` }, "bad-request");
+    case "LIMIT_UNEXPECTED_FILE":
+      return new HttpError(400, `Send capture files in form parts named "file" (got "${e.field}").`, { file: "Unexpected file field" }, "bad-request");
+    case "LIMIT_FIELD_VALUE":
+    case "LIMIT_FIELD_COUNT":
+    case "LIMIT_PART_COUNT":
+    case "LIMIT_FIELD_KEY":
+      return new HttpError(400, "The form has too many or too large fields.", undefined, "bad-request");
+    default:
+      if (e.message && /multipart|boundary|Unexpected end/i.test(e.message)) return new HttpError(400, `The upload is not a readable multipart form: ${e.message}`, undefined, "bad-request");
+      return err;
+  }
+}
+
+/** A rejected file: 415 when it is not a capture type at all, 422 when it is CSV/WAV but cannot be used. */
+export class FileRejected extends HttpError {
+  constructor(
+    status: number,
+    message: string,
+    code: string,
+    public detail: { fileName: string; line?: number; column?: number; byte?: number },
+  ) {
+    super(status, message, { file: message }, code);
+  }
+}
+
+export interface CheckedFile extends ReceivedFile {
+  format: "csv" | "wav";
+  meta: Required<CaptureMeta>;
+}
+
+/**
+ * Tell the type from the first bytes, then parse the whole file with the engine's parser so a bad file is refused
+ * now, with the parser's message naming the line or byte, rather than failing later in the worker.
+ */
+export async function checkFile(f: ReceivedFile, sampleRate: number | undefined): Promise<CheckedFile> {
+  const head = Buffer.alloc(Math.min(4096, f.size));
+  if (f.size > 0) {
+    const fh = await fsp.open(f.path, "r");
+    try {
+      await fh.read(head, 0, head.length, 0);
+    } finally {
+      await fh.close();
+    }
+  }
+  if (f.size === 0) throw new FileRejected(422, `"${f.fileName}" is empty.`, "empty", { fileName: f.fileName });
+  const format = sniffFormat(head);
+  if (!format) {
+    // Let the parser phrase it (it recognises spreadsheets, PDFs, audio…).
+    let message = `"${f.fileName}" is neither a CSV table of numbers nor a WAV recording. Upload a .csv or .wav capture.`;
+    try {
+      parseCapture(head, { fileName: f.fileName });
+    } catch (err) {
+      if (err instanceof CaptureParseError && err.code === "unknown-format") message = err.message;
+    }
+    throw new FileRejected(415, message, "unsupported-type", { fileName: f.fileName, byte: 0 });
+  }
+  const bytes = await fsp.readFile(f.path);
+  try {
+    const capture = parseCapture(bytes, { fileName: f.fileName, sampleRate });
+    return { ...f, format, meta: summariseCapture(capture) };
+  } catch (err) {
+    if (err instanceof CaptureParseError) {
+      const status = err.code === "unknown-format" ? 415 : 422;
+      const message = err.message.includes(f.fileName) ? err.message : `${f.fileName}: ${err.message}`;
+      throw new FileRejected(status, message, err.code, { fileName: f.fileName, line: err.line, column: err.column, byte: err.byte });
+    }
+    throw err;
+  }
+}
+
+export function removeDir(dir: string) {
+  return fsp.rm(dir, { recursive: true, force: true });
+}

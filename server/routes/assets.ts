@@ -1,0 +1,252 @@
+// Motors (assets), their measurement points, the register import, trends and re-analysis.
+import { z } from "zod";
+import multer from "multer";
+import type { AppContext } from "../context.ts";
+import { guardedRouter } from "../http.ts";
+import { badRequest, conflict, HttpError, notFound, parseOr400 } from "../errors.ts";
+import { audit } from "../audit.ts";
+import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
+import {
+  applyGradeFilter,
+  ASSET_SORT,
+  assetBase,
+  assetOut,
+  assetSelect,
+  createAssetSchema,
+  checkSpeed,
+  loadAsset,
+  nameplateChanges,
+  patchAssetSchema,
+  pointOut,
+  toRow,
+} from "../captures/asset-service.ts";
+import { importAssets } from "../captures/asset-import.ts";
+import { requeueAnalysis } from "../captures/ingest.ts";
+import { motorModelOf } from "../captures/motor-model.ts";
+
+const pointSchema = z.object({
+  name: z.string().trim().min(1, "Give the point a name").max(100),
+  kind: z.enum(["current", "vibration", "voltage"], { message: "current, vibration or voltage" }),
+  position: z.string().trim().max(10).nullable().optional(),
+  ctRatio: z.number().positive().finite().nullable().optional(),
+  sensitivity: z.number().positive().finite().nullable().optional(),
+  unit: z.string().trim().min(1).max(10).optional(),
+});
+const pointRow = (p: Partial<z.infer<typeof pointSchema>>) => {
+  const row: Record<string, unknown> = {};
+  if (p.name !== undefined) row.name = p.name;
+  if (p.kind !== undefined) row.kind = p.kind;
+  if (p.position !== undefined) row.position = p.position;
+  if (p.ctRatio !== undefined) row.ct_ratio = p.ctRatio;
+  if (p.sensitivity !== undefined) row.sensitivity = p.sensitivity;
+  if (p.unit !== undefined) row.unit = p.unit;
+  return row;
+};
+const DEFAULT_UNIT: Record<string, string> = { current: "A", vibration: "mm/s", voltage: "V" };
+
+const isoDate = z
+  .string()
+  .refine((s) => !Number.isNaN(Date.parse(s)), "Not a date (use ISO 8601, e.g. 2026-12-01T08:00:00Z)")
+  .optional();
+
+const isUnique = (err: unknown) => (err as { code?: string }).code === "23505";
+const isForeignKey = (err: unknown) => (err as { code?: string }).code === "23503";
+
+export function assetRoutes(ctx: AppContext) {
+  const r = guardedRouter("/api");
+  const { db } = ctx;
+  const importUpload = multer({ storage: multer.memoryStorage(), limits: { fileSize: 5 * 1024 * 1024, files: 1 } });
+
+  const mustAsset = async (id: number) => {
+    const a = await loadAsset(db, id);
+    if (!a) throw notFound("No such motor.");
+    return a;
+  };
+  const checkArea = async (areaId: number | undefined) => {
+    if (areaId !== undefined && !(await db("areas").where({ id: areaId }).first())) throw badRequest("Invalid motor", { areaId: "No such area" });
+  };
+  const reanalyseAll = async (assetId: number) => {
+    const caps = await db("captures").where({ asset_id: assetId }).whereNotNull("blob_key").orderBy("taken_at").select("id");
+    for (const c of caps) await requeueAnalysis(ctx, c.id, { newVersion: true });
+    return caps.length;
+  };
+
+  r.get("/assets", "fleet.read", async (req, res) => {
+    const q = listQuery(req.query, {
+      siteId: z.coerce.number().int().positive().optional(),
+      areaId: z.coerce.number().int().positive().optional(),
+      q: z.string().trim().max(100).optional(),
+      grade: z.string().max(60).optional(),
+      drivenEquipment: z.string().max(40).optional(),
+      criticality: z.enum(["low", "medium", "high"]).optional(),
+    });
+    const base = assetBase(db);
+    if (q.siteId) base.where("s.id", q.siteId);
+    if (q.areaId) base.where("a.area_id", q.areaId);
+    if (q.q) base.where((w) => w.whereILike("a.tag", `%${q.q}%`).orWhereILike("a.name", `%${q.q}%`));
+    if (q.drivenEquipment) base.whereIn("a.driven_equipment", q.drivenEquipment.split(","));
+    if (q.criticality) base.where("a.criticality", q.criticality);
+    if (q.grade) applyGradeFilter(base, q.grade);
+    const page = await paginate(base, (b) => applySort(assetSelect(db)(b), q.sort, ASSET_SORT, "tag", "a.id"), q, assetOut);
+    res.json(page);
+  });
+
+  r.get("/assets/:id", "fleet.read", async (req, res) => {
+    const asset = await mustAsset(idParam(req.params.id, "motor"));
+    const points = await db("measurement_points").where({ asset_id: asset.id }).orderBy("id");
+    res.json({ ...asset, measurementPoints: points.map(pointOut) });
+  });
+
+  r.post("/assets", "assets.write", async (req, res) => {
+    const body = parseOr400(createAssetSchema, req.body, "Invalid motor");
+    await checkArea(body.areaId);
+    try {
+      const [row] = await db("assets").insert(toRow(body)).returning("id");
+      await audit(db, { actor: req.user, action: "asset.created", subjectType: "asset", subjectId: row.id, details: { tag: body.tag }, ip: req.ip });
+      res.status(201).json(await loadAsset(db, row.id));
+    } catch (err) {
+      if (isUnique(err)) throw new HttpError(409, `A motor with tag ${body.tag} already exists.`, { tag: "This tag is taken" }, "conflict");
+      throw err;
+    }
+  });
+
+  r.patch("/assets/:id", "assets.write", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    const body = parseOr400(patchAssetSchema, req.body, "Invalid motor");
+    const row = await db("assets").where({ id }).first();
+    if (!row) throw notFound("No such motor.");
+    const issues: Record<string, string> = {};
+    checkSpeed({ ratedRpm: body.ratedRpm ?? row.rated_rpm, ratedHz: body.ratedHz ?? row.rated_hz, poles: body.poles ?? row.poles }, {
+      addIssue: (i: { message?: string }) => (issues.ratedRpm = i.message ?? "Invalid"),
+    } as never);
+    if (Object.keys(issues).length) throw badRequest("Invalid motor", issues);
+    await checkArea(body.areaId);
+    const changed = nameplateChanges(row, body);
+    try {
+      await db("assets")
+        .where({ id })
+        .update({ ...toRow(body), ...(changed.length ? { nameplate_version: row.nameplate_version + 1 } : {}), updated_at: db.fn.now() });
+    } catch (err) {
+      if (isUnique(err)) throw new HttpError(409, `A motor with tag ${body.tag} already exists.`, { tag: "This tag is taken" }, "conflict");
+      throw err;
+    }
+    await audit(db, { actor: req.user, action: "asset.updated", subjectType: "asset", subjectId: id, details: { fields: Object.keys(body), nameplateChanged: changed }, ip: req.ip });
+    const queued = req.query.reanalyse === "1" || req.query.reanalyse === "true" ? await reanalyseAll(id) : 0;
+    res.json({ ...(await loadAsset(db, id)), ...(queued ? { queued } : {}) });
+  });
+
+  r.delete("/assets/:id", "assets.write", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    const row = await db("assets").where({ id }).first();
+    if (!row) throw notFound("No such motor.");
+    const caps = await db("captures").where({ asset_id: id }).count<{ count: string }[]>({ count: "*" });
+    if (Number(caps[0].count) > 0) throw conflict(`Motor ${row.tag} has ${caps[0].count} capture(s); its history is kept, so it cannot be deleted.`);
+    try {
+      await db("assets").where({ id }).delete();
+    } catch (err) {
+      if (isForeignKey(err)) throw conflict(`Motor ${row.tag} is still referenced (inspections or streams) and cannot be deleted.`);
+      throw err;
+    }
+    await audit(db, { actor: req.user, action: "asset.deleted", subjectType: "asset", subjectId: id, details: { tag: row.tag }, ip: req.ip });
+    res.status(204).end();
+  });
+
+  r.post("/assets/import", "assets.write", (req, res, next) => {
+    importUpload.single("file")(req, res, (err: unknown) => {
+      if (err) {
+        const code = (err as { code?: string }).code;
+        if (code === "LIMIT_FILE_SIZE") return next(new HttpError(413, "The register file is larger than 5 MB.", undefined, "too-large"));
+        return next(badRequest("Send the register as a multipart form with one `file` part.", { file: (err as Error).message }));
+      }
+      next();
+    });
+  }, async (req, res) => {
+    if (!req.file) throw badRequest("Attach the register CSV as `file`.", { file: "Required" });
+    const text = req.file.buffer.toString("utf8");
+    if (text.includes("\u0000")) throw new HttpError(415, "The register must be a CSV text file.", undefined, "unsupported-type");
+    const report = await importAssets(db, text);
+    await audit(db, { actor: req.user, action: "asset.imported", subjectType: "asset", details: { created: report.created, updated: report.updated, errors: report.errors.length }, ip: req.ip });
+    res.json(report);
+  });
+
+  r.post("/assets/:id/points", "assets.write", async (req, res) => {
+    const assetId = idParam(req.params.id, "motor");
+    const body = parseOr400(pointSchema, req.body, "Invalid measurement point");
+    if (!(await db("assets").where({ id: assetId }).first())) throw notFound("No such motor.");
+    try {
+      const [p] = await db("measurement_points").insert({ asset_id: assetId, ...pointRow(body), unit: body.unit ?? DEFAULT_UNIT[body.kind] }).returning("*");
+      res.status(201).json(pointOut(p));
+    } catch (err) {
+      if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "Taken" }, "conflict");
+      throw err;
+    }
+  });
+
+  r.patch("/points/:id", "assets.write", async (req, res) => {
+    const id = idParam(req.params.id, "measurement point");
+    const body = parseOr400(pointSchema.partial().strict(), req.body, "Invalid measurement point");
+    if (!(await db("measurement_points").where({ id }).first())) throw notFound("No such measurement point.");
+    try {
+      const row = pointRow(body);
+      if (Object.keys(row).length) await db("measurement_points").where({ id }).update(row);
+    } catch (err) {
+      if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "Taken" }, "conflict");
+      throw err;
+    }
+    res.json(pointOut(await db("measurement_points").where({ id }).first()));
+  });
+
+  r.delete("/points/:id", "assets.write", async (req, res) => {
+    const id = idParam(req.params.id, "measurement point");
+    const n = await db("measurement_points").where({ id }).delete();
+    if (!n) throw notFound("No such measurement point.");
+    res.status(204).end();
+  });
+
+  r.post("/assets/:id/reanalyse", "analyses.reanalyse", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    await mustAsset(id);
+    const queued = await reanalyseAll(id);
+    await audit(db, { actor: req.user, action: "asset.reanalysed", subjectType: "asset", subjectId: id, details: { queued }, ip: req.ip });
+    res.status(202).json({ queued });
+  });
+
+  r.get("/assets/:id/trend", "fleet.read", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    const q = parseOr400(z.object({ from: isoDate, to: isoDate }), req.query, "Invalid trend query");
+    await mustAsset(id);
+    const rows = await db("analyses")
+      .where({ asset_id: id, is_current: true })
+      .modify((b) => {
+        if (q.from) b.where("taken_at", ">=", new Date(q.from));
+        if (q.to) b.where("taken_at", "<=", new Date(q.to));
+      })
+      .orderBy([{ column: "taken_at" }, { column: "id" }])
+      .limit(5000);
+    res.json({
+      points: rows.map((a: Record<string, any>) => ({
+        takenAt: a.taken_at,
+        captureId: a.capture_id,
+        analysisId: a.id,
+        loadPct: a.load_pct,
+        slip: a.slip,
+        rpm: a.rpm,
+        sidebandDb: a.sideband_db,
+        rotorGrade: a.rotor_grade,
+        rotorAssessable: a.rotor_assessable,
+        vibrationRms: a.vibration_rms,
+        vibrationZone: a.vibration_zone,
+        supplyHz: a.supply_hz,
+      })),
+    });
+  });
+
+  r.get("/assets/:id/motor-model", "fleet.read", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    const row = await db("assets").where({ id }).first();
+    if (!row) throw notFound("No such motor.");
+    res.json(await motorModelOf(db, row));
+  });
+
+  return r.router;
+}

@@ -1,0 +1,26 @@
+// Piscina task: the CPU-bound part of one analysis (parse the file, run the engine), in a worker thread so
+// several captures are analysed at once and the job loop stays responsive.
+import { parseCapture, CaptureParseError } from "../src/engine/parse/index.ts";
+import { analyzeCapture, ENGINE_VERSION } from "../src/engine/analyze.ts";
+import type { AnalysisResult, Nameplate } from "../src/engine/types.ts";
+import { summariseCapture, toPlainJson, type AnalysisTaskOutput } from "../server/captures/engine-io.ts";
+
+export interface AnalysisTaskInput {
+  bytes: Uint8Array;
+  fileName: string;
+  sampleRate?: number;
+  nameplate: Nameplate;
+}
+
+/** Parse errors come back as a value: an Error's class does not survive the trip between threads. */
+export default function analysisTask(input: AnalysisTaskInput): AnalysisTaskOutput {
+  let capture;
+  try {
+    capture = parseCapture(input.bytes, { fileName: input.fileName, sampleRate: input.sampleRate });
+  } catch (err) {
+    if (err instanceof CaptureParseError) return { parseError: { code: err.code, message: err.message } };
+    throw err;
+  }
+  const result = analyzeCapture(capture, input.nameplate, {});
+  return { engineVersion: ENGINE_VERSION, meta: summariseCapture(capture), result: toPlainJson(result) as AnalysisResult };
+}

@@ -1,0 +1,98 @@
+// The analysis worker process: takes capture-analysis jobs from pg-boss and runs the CPU work in piscina
+// threads. Run with `node --import tsx workers/worker.ts` (env DATABASE_URL, WORKER_CONCURRENCY, BLOB_DRIVER…).
+// Prints "worker ready" once it is taking jobs. Any number of these may run against one database.
+import path from "node:path";
+import { fileURLToPath, pathToFileURL } from "node:url";
+import { Piscina } from "piscina";
+import { loadConfig } from "../server/config.ts";
+import { createKnex, migrateLatest } from "../server/db.ts";
+import { createBlobStore } from "../server/blob/index.ts";
+import { ANALYSIS_QUEUE, createCaptureQueue, type AnalysisJobData } from "../server/queue.ts";
+import { runAnalysisJob } from "../server/captures/analysis-job.ts";
+import type { AnalysisTaskInput } from "./analysis-task.ts";
+import type { AnalysisTaskOutput } from "../server/captures/engine-io.ts";
+
+const HERE = path.dirname(fileURLToPath(import.meta.url));
+
+async function main() {
+  const config = loadConfig();
+  const concurrency = Math.max(1, Math.floor(config.workerConcurrency));
+  const db = createKnex(config.databaseUrl, { min: 0, max: concurrency + 2 });
+  await migrateLatest(db);
+  const blob = await createBlobStore(config);
+  const queue = await createCaptureQueue(config.databaseUrl, {
+    supervise: true,
+    maintenanceIntervalSeconds: Number(process.env.BARHOUND_MAINTENANCE_S) || 30,
+    max: 2 + concurrency,
+  });
+  // piscina runs the TypeScript task through tsx's loader in each thread.
+  const pool = new Piscina<AnalysisTaskInput, AnalysisTaskOutput>({
+    filename: pathToFileURL(path.join(HERE, "analysis-task.ts")).href,
+    execArgv: ["--import", "tsx"],
+    minThreads: concurrency,
+    maxThreads: concurrency,
+    idleTimeout: 60_000,
+  });
+  const delayMs = config.env === "test" ? Number(process.env.BARHOUND_TEST_ANALYSIS_DELAY_MS) || 0 : 0;
+  const idleMs = Number(process.env.BARHOUND_WORKER_IDLE_MS) || 250;
+  const deps = {
+    db,
+    blob,
+    delayMs,
+    runTask: (input: AnalysisTaskInput) => {
+      // Transfer, not copy, the bytes, but never a shared pool slab (that would detach unrelated buffers).
+      const b = input.bytes;
+      const own = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength ? b : b.slice();
+      return pool.run({ ...input, bytes: own }, { transferList: [own.buffer as ArrayBuffer] });
+    },
+  };
+
+  // One fetch loop per thread. pg-boss's own work() loop sleeps a full polling interval between jobs even
+  // when the queue is full; fetching ourselves keeps the threads busy and the latency low.
+  let stopping = false;
+  const loops = Array.from({ length: concurrency }, async () => {
+    while (!stopping) {
+      let jobs;
+      try {
+        jobs = await queue.boss.fetch<AnalysisJobData>(ANALYSIS_QUEUE, { batchSize: 1, includeMetadata: true });
+      } catch (err) {
+        console.error("[worker] fetch failed:", (err as Error).message);
+        await sleep(1000);
+        continue;
+      }
+      if (!jobs.length) {
+        await sleep(idleMs);
+        continue;
+      }
+      const job = jobs[0];
+      try {
+        const outcome = await runAnalysisJob(deps, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+        await queue.boss.complete(ANALYSIS_QUEUE, job.id, { outcome });
+      } catch (err) {
+        console.error(`[worker] capture ${job.data.captureId} attempt ${job.retryCount + 1} failed:`, (err as Error).message);
+        await queue.boss.fail(ANALYSIS_QUEUE, job.id, { message: (err as Error).message }).catch(() => {});
+      }
+    }
+  });
+
+  const stop = async () => {
+    stopping = true;
+    await Promise.race([Promise.all(loops), sleep(10_000)]);
+    await queue.stop().catch(() => {});
+    await pool.destroy().catch(() => {});
+    await db.destroy().catch(() => {});
+    process.exit(0);
+  };
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+  console.log(`worker ready (concurrency ${concurrency}, blob ${blob.driver})`);
+}
+
+function sleep(ms: number) {
+  return new Promise((r) => setTimeout(r, ms));
+}
+
+main().catch((err) => {
+  console.error("[worker] could not start:", err);
+  process.exit(1);
+});
