@@ -2,6 +2,7 @@ import express, { type Router } from "express";
 import helmet from "helmet";
 import cookieParser from "cookie-parser";
 import { pinoHttp } from "pino-http";
+import pino from "pino";
 import path from "node:path";
 import fs from "node:fs";
 import type { AppContext } from "./context.ts";
@@ -30,7 +31,15 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   app.set("trust proxy", "loopback");
   app.use(helmet());
   if (ctx.config.env !== "test")
-    app.use(pinoHttp({ autoLogging: { ignore: (req) => !req.url?.startsWith("/api") }, quietReqLogger: true }));
+    app.use(
+      pinoHttp({
+        // Buffered, asynchronous writes: synchronous logging to a pipe cost a third of upload throughput.
+        logger: pino(pino.destination({ sync: false, minLength: 4096 })),
+        autoLogging: { ignore: (req) => !req.url?.startsWith("/api") },
+        quietReqLogger: true,
+        serializers: { req: (r) => ({ method: r.method, url: r.url }), res: (r) => ({ status: r.statusCode }) },
+      }),
+    );
   app.use(express.json({ limit: "2mb" }));
   app.use(cookieParser());
   app.use(sessionMiddleware(ctx.db, ctx.config));
