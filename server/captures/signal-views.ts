@@ -53,29 +53,21 @@ function pickChannel(cap: Capture, name: string | undefined, kind: string | unde
   return ch;
 }
 
-/** m/s² (or g) amplitude at f → velocity in mm/s; a velocity channel is only rescaled to mm/s. */
-function toVelocityMmS(amp: number, hz: number, unit: string): number {
-  const u = unit.toLowerCase();
-  if (u === "mm/s") return amp;
-  if (u === "m/s") return amp * 1000;
-  if (u === "in/s") return amp * 25.4;
-  const acc = u === "g" ? amp * 9.80665 : amp; // m/s²
-  return hz > 0 ? (acc / (2 * Math.PI * hz)) * 1000 : 0;
-}
-
 /** The whole-band spectrum of one channel at full resolution (cached). */
 export async function fullSpectrum(db: Knex, blob: BlobStore, id: number, channelName?: string, kind?: string): Promise<FullSpectrum> {
   const cap = await loadParsed(db, blob, id);
   const ch = pickChannel(cap, channelName, kind);
   return spectra.getOrCompute(`s${id}:${ch.name}`, async () => {
     const vibration = ch.kind === "vibration";
-    // Current: dB re the supply line (the engine's default reference). Vibration: amplitude → mm/s.
-    const d = spectrumForDisplay(ch.data, cap.sampleRate, { maxPoints: Number.MAX_SAFE_INTEGER, ...(vibration ? { referenceAmplitude: 1 } : {}) });
+    // Current: dB re the supply line (the engine's default reference). Vibration: velocity in mm/s r.m.s. per line.
+    const d = spectrumForDisplay(ch.data, cap.sampleRate, {
+      maxPoints: Number.MAX_SAFE_INTEGER,
+      ...(vibration ? { quantity: "velocity-mm-s" as const, unit: ch.unit } : {}),
+    });
     const n = d.hz.length;
-    const values = new Float32Array(n);
-    for (let i = 0; i < n; i++) values[i] = vibration ? toVelocityMmS(10 ** (d.db[i] / 20), d.hz[i], ch.unit) : d.db[i];
+    const values = Float32Array.from(vibration ? d.level : d.db);
     const dx = n > 1 ? d.hz[1] - d.hz[0] : cap.sampleRate / 2;
-    const value: FullSpectrum = { channel: ch.name, unit: vibration ? "mm/s" : "dB", series: { x0: d.hz[0] ?? 0, dx, values }, resolutionHz: d.resolutionHz };
+    const value: FullSpectrum = { channel: ch.name, unit: d.unit, series: { x0: d.hz[0] ?? 0, dx, values }, resolutionHz: d.resolutionHz };
     return { value, size: values.byteLength + 64 };
   });
 }

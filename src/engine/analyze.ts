@@ -7,8 +7,10 @@ import { coarseSupplyHz, estimateSupply, lowBand, lowBandPassHz, subtractTone, t
 import { realSpectrum, findPeak, zoomSpectrum, toDb, type LineSpectrum } from "./spectrum.ts";
 import { zoomComplex } from "./zoom.ts";
 import {
+  combinePhaseEstimates,
   eccentricityEstimate,
   fuseSlip,
+  phaseAgreementTolerance,
   plausibleSlipRange,
   sidebandPairEstimate,
   slotHarmonicBand,
@@ -119,19 +121,47 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
 
   // ---- slip estimators --------------------------------------------------------------------------------------
   let range: SlipRange | null = f ? plausibleSlipRange(nameplate, f) : null;
-  let rshPeaks: Array<{ nw: number; hz: number; amp: number }> = [];
+  // RSH marker lines, with the phase they were read on and that phase's supply amplitude (for the dB level)
+  let rshPeaks: Array<{ nw: number; hz: number; amp: number; channel: string; supplyAmp: number }> = [];
+  const slipByPhase: Array<{ channel: string; method: string; slip: number | null; confidence: number }> = [];
   if (primary && supply && range && f) {
-    const ecc = eccentricityEstimate(primary.band.spectrum, f, poles, range, supply.spreadHz);
+    // Eccentricity and slot-harmonic lines on every current phase (up to three, the primary first), combined per
+    // method, so a noisy, weak or missing phase does not lose the speed.
+    const phaseWork = [primary, ...work.filter((w) => w !== primary && w.supply)].slice(0, 3);
+    const res = 1 / primary.band.spectrum.seconds;
+    const note = (method: string, channel: string, e: SlipEstimate | null) => slipByPhase.push({ channel, method, slip: e ? r(e.slip, 6) : null, confidence: e ? r(e.confidence, 3) : 0 });
+    const eccPerPhase = phaseWork.map((w) => {
+      const e = eccentricityEstimate(w.band.spectrum, f, poles, range!, w.supply!.spreadHz);
+      note("eccentricity", w.ch.name, e);
+      return { channel: w.ch.name, estimate: e };
+    });
+    const ecc = combinePhaseEstimates(eccPerPhase, f, poles, phaseAgreementTolerance("eccentricity", res, f, poles));
     if (ecc) slipEstimates.push(ecc);
     if (nameplate.rotorBars) {
-      const band = slotHarmonicBand(f, poles, nameplate.rotorBars, range, fs / 2);
+      const R = nameplate.rotorBars;
+      const band = slotHarmonicBand(f, poles, R, range, fs / 2);
       if (!band) {
-        quality.push({ code: "low-sample-rate", severity: "info", message: `Sample rate ${fs} Hz is too low for the rotor slot harmonics (need > ${(2.56 * slotHarmonicHz(f, poles, range.min, nameplate.rotorBars, 1, 1)).toFixed(0)} Hz).` });
+        quality.push({ code: "low-sample-rate", severity: "info", message: `Sample rate ${fs} Hz is too low for the rotor slot harmonics (need > ${(2.56 * slotHarmonicHz(f, poles, range.min, R, 1, 1)).toFixed(0)} Hz).` });
       } else {
-        const z = zoomSpectrum(zoomComplex(primary.ch.data, fs, band.centerHz, band.halfBandHz));
-        const rsh = slotHarmonicEstimate(z, band, f, poles, nameplate.rotorBars, supply.spreadHz);
-        if (rsh.estimate) slipEstimates.push(rsh.estimate);
-        rshPeaks = rsh.peaks;
+        const rshPerPhase = phaseWork.map((w) => {
+          const z = zoomSpectrum(zoomComplex(w.ch.data, fs, band.centerHz, band.halfBandHz));
+          const out = slotHarmonicEstimate(z, band, f, poles, R, w.supply!.spreadHz);
+          note("slot-harmonic", w.ch.name, out.estimate);
+          return { w, out };
+        });
+        const rsh = combinePhaseEstimates(
+          rshPerPhase.map(({ w, out }) => ({ channel: w.ch.name, estimate: out.estimate })),
+          f,
+          poles,
+          phaseAgreementTolerance("slot-harmonic", res, f, poles, R),
+        );
+        if (rsh) {
+          slipEstimates.push(rsh);
+          // markers from the first phase (primary first) whose estimate agrees with the combined one
+          const tol = phaseAgreementTolerance("slot-harmonic", res, f, poles, R);
+          const src = rshPerPhase.find(({ out }) => out.estimate && Math.abs(out.estimate.slip - rsh.slip) <= tol);
+          if (src) rshPeaks = src.out.peaks.map((pk) => ({ ...pk, channel: src.w.ch.name, supplyAmp: src.w.supply!.amplitude }));
+        }
       }
     }
   }
@@ -203,6 +233,12 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
   }
 
   // ---- rotor ------------------------------------------------------------------------------------------------
+  // 0 dB reference: the supply amplitude from the Hann low-band spectrum with the zero-padding-aware Grandke
+  // correction (supply.ts), not a flat-top reading. Measured (tests/engine/spectrum-velocity.test.ts): on an
+  // isolated tone at random fractional-bin offsets both are well within 0.1 dB (Hann ~1e−8 dB, flat-top tallest
+  // bin ≤ 0.003 dB), so flat-top gains nothing there; on a wandering supply (±0.06 Hz, 20 s) Hann reads f ~0.9 dB
+  // low but the Hann-measured sidebands are smeared alike, so the graded depth stays within 0.3 dB, whereas a
+  // flat-top reference reads f fully and would shift every depth by ~0.9 dB. The same window on both lines wins.
   const phases: PhaseResult[] = [];
   let brokenBar: BrokenBarResult;
   const measurements: Array<SidebandMeasurement | null> = [];
@@ -281,7 +317,7 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
       const fr = rotorHz(supply.hz, poles, slip);
       if (poles > 2) markers.push({ name: "f − fr", family: "eccentricity", hz: r(supply.hz - fr, 4), level: levelAt(supply.hz - fr), channel: ch });
       markers.push({ name: "f + fr", family: "eccentricity", hz: r(supply.hz + fr, 4), level: levelAt(supply.hz + fr), channel: ch });
-      for (const pk of rshPeaks) markers.push({ name: `RSH ${pk.nw > 0 ? "+" : "−"}1`, family: "slot", hz: r(pk.hz, 3), level: r(toDb(pk.amp / supply.amplitude), 1), channel: ch });
+      for (const pk of rshPeaks) markers.push({ name: `RSH ${pk.nw > 0 ? "+" : "−"}1`, family: "slot", hz: r(pk.hz, 3), level: r(toDb(pk.amp / pk.supplyAmp), 1), channel: pk.channel });
     }
     for (const k of [3, 5, 7]) {
       const hz = k * supply.hz;
@@ -309,6 +345,7 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
     rpm: slip !== null && fz ? r(rpmFromSlip(fz, poles, slip), 2) : null,
     slipEstimates: slipEstimates.map((e) => ({ ...e, slip: r(e.slip, 6), rpm: r(e.rpm, 2), confidence: r(e.confidence, 3) })),
     slipConfidence: r(slipConfidence, 3),
+    slipByPhase,
     loadPct: load.loadPct,
     loadMethod: load.loadMethod,
     loadEstimates: load.estimates.map((e) => ({ ...e, loadPct: r(e.loadPct, 1) })),

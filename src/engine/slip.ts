@@ -125,6 +125,56 @@ export function slotHarmonicEstimate(spec: LineSpectrum, band: SlotHarmonicBand,
   return { estimate: estimate("slot-harmonic", best.s, f, poles, best.c * 0.8, `RSH ${best.nw > 0 ? "+" : "−"}1 at ${best.hz.toFixed(2)} Hz`), peaks: peaks.filter((q) => q.hz === best.hz) };
 }
 
+export interface PhaseSlipEstimate {
+  /** Current channel the estimate came from. */
+  channel: string;
+  estimate: SlipEstimate | null;
+}
+
+/**
+ * Slip tolerance within which two phases' estimates of one method count as the same line: three resolution bins
+ * of the line, converted to slip through d(line Hz)/d(slip) (f/p for f ± fr, R·f/p for a slot harmonic), with a
+ * floor — the same rule the single-phase estimators use to pair their two lines.
+ */
+export function phaseAgreementTolerance(method: string, resolutionHz: number, f: number, poles: number, rotorBars?: number): number {
+  const p = poles / 2;
+  if (method === "slot-harmonic") return Math.max(3e-4, (3 * resolutionHz * p) / (f * (rotorBars ?? 28)));
+  return Math.max(5e-4, (3 * resolutionHz * p) / f);
+}
+
+/**
+ * One estimate of a method from the current phases (up to three). The rotor lines are in every phase, each with
+ * its own noise, so a phase whose line is buried (noisy or weak clamp) or that picked a wrong peak must not decide
+ * the result. Centre = confidence-weighted median of the phases that found the line; the phases within `tolSlip`
+ * of it are averaged, weighted by confidence. Confidence is the best agreeing phase's (the phases watch the same
+ * line, so agreement is not independent evidence the way two methods are), × 0.9 when a phase disagreed.
+ * Barhound convention (common practice: read all three phases; no published combining rule).
+ */
+export function combinePhaseEstimates(perPhase: PhaseSlipEstimate[], f: number, poles: number, tolSlip: number): SlipEstimate | null {
+  const got = perPhase.filter((q): q is { channel: string; estimate: SlipEstimate } => !!q.estimate && q.estimate.confidence > 0);
+  if (!got.length) return null;
+  if (got.length === 1 && perPhase.length === 1) return got[0].estimate;
+  const sorted = [...got].sort((a, b) => a.estimate.slip - b.estimate.slip);
+  const total = sorted.reduce((t, q) => t + q.estimate.confidence, 0);
+  let acc = 0;
+  let centre = sorted[sorted.length - 1];
+  for (const q of sorted) {
+    acc += q.estimate.confidence;
+    if (acc >= total / 2) {
+      centre = q;
+      break;
+    }
+  }
+  const agree = got.filter((q) => Math.abs(q.estimate.slip - centre.estimate.slip) <= tolSlip);
+  const w = agree.reduce((t, q) => t + q.estimate.confidence, 0);
+  const slip = agree.reduce((t, q) => t + q.estimate.slip * q.estimate.confidence, 0) / w;
+  const best = agree.reduce((a, b) => (b.estimate.confidence > a.estimate.confidence ? b : a));
+  const confidence = best.estimate.confidence * (agree.length < got.length ? 0.9 : 1);
+  const names = agree.map((q) => q.channel).join(", ");
+  const detail = `${agree.length} of ${perPhase.length} phases agree (${names}); best ${best.channel}: ${best.estimate.detail ?? ""}`.trim();
+  return estimate(best.estimate.method, slip, f, poles, confidence, detail);
+}
+
 export interface VibrationSpeed {
   oneX: Peak | null;
   polePassLower: Peak | null;

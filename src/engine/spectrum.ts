@@ -4,6 +4,7 @@ import { realFft, complexFft, nextPow2 } from "./fft.ts";
 import { makeWindow, enbwBins, type WindowName } from "./windows.ts";
 import { decimateReal, zoomComplex, type Decimated } from "./zoom.ts";
 import { sinc, quadraticDb } from "./interpolate.ts";
+import { STANDARD_GRAVITY } from "./formulas.ts";
 
 export interface LineSpectrum {
   /** Frequency of bin 0 and bin spacing (Hz). Bin k is at hz0 + k·df. */
@@ -148,6 +149,10 @@ export function interpolateAt(spec: LineSpectrum, k: number): { hz: number; amp:
   }
   const db = (v: number) => 20 * Math.log10(v + 1e-300);
   const q = quadraticDb(db(a[k - 1]), db(a[k]), db(a[k + 1]));
+  // Flat-top: the main lobe is flat to ≤ 0.01 dB over ±½ bin, so the tallest bin is already the amplitude; a
+  // parabola through a flat top overshoots (measured: ≤ 0.0023 dB raw vs ≤ 0.028 dB parabolic, tests/engine/
+  // spectrum-velocity.test.ts). The parabola still places the frequency.
+  if (spec.window === "flattop") return { hz: hzOf(spec, k + q.delta), amp: a[k] };
   return { hz: hzOf(spec, k + q.delta), amp: 10 ** (q.peakDb / 20) };
 }
 
@@ -212,33 +217,81 @@ export function toDb(ratio: number): number {
 // ---------------------------------------------------------------------------------------------------------------
 // Display spectrum for the viewer
 
+export type SignalQuantity = "acceleration" | "velocity";
+
+/**
+ * Factor from a channel unit to SI (m/s² or m/s) and which quantity it is: g → 9.80665 m/s² (standard gravity,
+ * CGPM 1901), mm/s → 1e−3 m/s, in/s → 0.0254 m/s; anything else (m/s2, m/s^2, m/s²) is taken as m/s².
+ */
+export function unitScale(unit: string): { scale: number; quantity: SignalQuantity } {
+  const u = unit.toLowerCase().replace(/\s/g, "");
+  if (u === "g") return { scale: STANDARD_GRAVITY, quantity: "acceleration" };
+  if (u === "mm/s") return { scale: 1e-3, quantity: "velocity" };
+  if (u === "m/s") return { scale: 1, quantity: "velocity" };
+  if (u === "in/s" || u === "ips") return { scale: 0.0254, quantity: "velocity" };
+  return { scale: 1, quantity: "acceleration" }; // m/s2, m/s^2, m/s²
+}
+
+/**
+ * Velocity r.m.s. in mm/s of a line of peak amplitude `amp` (channel units) at `hz`: integration in the frequency
+ * domain, V = A/(2πf) (domain.md §6, check value 16), r.m.s. = peak/√2. A velocity channel is only rescaled.
+ * Zero at f ≤ 0 (DC has no velocity line).
+ */
+export function lineVelocityMmS(amp: number, hz: number, unit: string): number {
+  const { scale, quantity } = unitScale(unit);
+  const rms = (amp * scale) / Math.SQRT2;
+  if (quantity === "velocity") return rms * 1000;
+  return hz > 0 ? (rms / (2 * Math.PI * hz)) * 1000 : 0;
+}
+
+/** "db": dB relative to the supply line (current). "velocity-mm-s": velocity per line in mm/s r.m.s. (vibration). */
+export type DisplayQuantity = "db" | "velocity-mm-s";
+
 export interface DisplaySpectrumOptions {
   fMinHz?: number;
   fMaxHz?: number;
   /** Number of points returned at most; bins are merged by max-hold so narrow lines survive. Default 4000. */
   maxPoints?: number;
-  /** Reference amplitude for 0 dB; default: the largest peak between 5 and 120 Hz (the supply line). */
+  /**
+   * Reference for 0 dB. "db": signal units, default the largest peak between 5 and 120 Hz (the supply line).
+   * "velocity-mm-s": mm/s r.m.s., default 1 (db is then dB re 1 mm/s).
+   */
   referenceAmplitude?: number;
+  /** Default "hann" for "db"; "flattop" for "velocity-mm-s" (≤ 0.01 dB scalloping: a line reads its level). */
   window?: WindowName;
+  /** Default "db". */
+  quantity?: DisplayQuantity;
+  /** Channel unit for "velocity-mm-s": "g", "m/s2" (default), "mm/s", "m/s", "in/s". */
+  unit?: string;
 }
 
 export interface DisplaySpectrum {
   hz: Float64Array;
+  /** dB re referenceAmplitude: the supply line ("db"), or 1 mm/s r.m.s. ("velocity-mm-s"). */
   db: Float32Array;
   referenceAmplitude: number;
   resolutionHz: number;
+  /** Unit of `level`: "dB" (then level is db) or "mm/s" (velocity r.m.s. per line). */
+  unit: "dB" | "mm/s";
+  /** The value to plot, in `unit`. */
+  level: Float32Array;
+  window: WindowName;
 }
 
 /**
- * Spectrum for the viewer, in dB relative to the supply component (or referenceAmplitude). A narrow band
- * (≤ fs/8 wide) is computed by complex zoom at full resolution 1/T; a low band (fMax ≤ fs/6) by real decimation;
- * otherwise one Hann FFT of the record (Welch-averaged in 2^20-sample segments for very long records).
+ * Spectrum for the viewer, in dB relative to the supply component (or referenceAmplitude), or as velocity in
+ * mm/s r.m.s. per line for a vibration channel. A narrow band (≤ fs/8 wide) is computed by complex zoom at full
+ * resolution 1/T; a low band (fMax ≤ fs/6) by real decimation; otherwise one FFT of the record (Welch-averaged in
+ * 2^20-sample segments for very long records). Points are merged by max-hold of the plotted quantity (after
+ * integration in velocity mode, so the 1/f weighting picks the right bin).
  */
 export function spectrumForDisplay(data: ArrayLike<number>, fs: number, opts: DisplaySpectrumOptions = {}): DisplaySpectrum {
+  const velocity = opts.quantity === "velocity-mm-s";
+  if (opts.quantity !== undefined && opts.quantity !== "db" && !velocity) throw new RangeError(`spectrumForDisplay: unknown quantity "${String(opts.quantity)}"`);
   const fMin = Math.max(0, opts.fMinHz ?? 0);
   const fMax = Math.min(fs / 2, opts.fMaxHz ?? fs / 2);
   const maxPoints = Math.max(16, opts.maxPoints ?? 4000);
-  const window = opts.window ?? "hann";
+  const window = opts.window ?? (velocity ? "flattop" : "hann");
   let spec: LineSpectrum;
   if (fMax - fMin <= fs / 8 && fMin > 0) {
     const half = (fMax - fMin) / 2;
@@ -249,26 +302,38 @@ export function spectrumForDisplay(data: ArrayLike<number>, fs: number, opts: Di
   } else {
     spec = realSpectrum(data, fs, { window, segment: Math.min(data.length, 1 << 20) });
   }
-  let ref = opts.referenceAmplitude;
-  if (!ref) {
-    const p = findPeak(spec, Math.max(5, fMin), Math.min(120, fMax));
-    ref = p ? p.amp : Math.max(...spec.amp);
-  }
   const k0 = Math.max(0, Math.ceil(binOf(spec, fMin)));
   const k1 = Math.min(spec.amp.length - 1, Math.floor(binOf(spec, fMax)));
+  // the per-bin quantity that is max-held and plotted
+  let value: Float64Array;
+  let ref = opts.referenceAmplitude;
+  if (velocity) {
+    const unit = opts.unit ?? "m/s2";
+    value = new Float64Array(spec.amp.length);
+    for (let k = k0; k <= k1; k++) value[k] = lineVelocityMmS(spec.amp[k], hzOf(spec, k), unit);
+    if (!ref) ref = 1;
+  } else {
+    value = spec.amp;
+    if (!ref) {
+      const p = findPeak(spec, Math.max(5, fMin), Math.min(120, fMax));
+      ref = p ? p.amp : Math.max(...spec.amp);
+    }
+  }
   const nBins = Math.max(0, k1 - k0 + 1);
   const group = Math.max(1, Math.ceil(nBins / maxPoints));
   const nOut = Math.ceil(nBins / group);
   const hz = new Float64Array(nOut);
   const db = new Float32Array(nOut);
+  const level = velocity ? new Float32Array(nOut) : db;
   for (let o = 0; o < nOut; o++) {
     let best = k0 + o * group;
     const end = Math.min(k1, k0 + (o + 1) * group - 1);
-    for (let k = best + 1; k <= end; k++) if (spec.amp[k] > spec.amp[best]) best = k;
+    for (let k = best + 1; k <= end; k++) if (value[k] > value[best]) best = k;
     hz[o] = hzOf(spec, best);
-    db[o] = toDb(spec.amp[best] / ref);
+    db[o] = toDb(value[best] / ref);
+    if (velocity) level[o] = value[best];
   }
-  return { hz, db, referenceAmplitude: ref, resolutionHz: 1 / spec.seconds };
+  return { hz, db, referenceAmplitude: ref, resolutionHz: 1 / spec.seconds, unit: velocity ? "mm/s" : "dB", level, window };
 }
 
 /**

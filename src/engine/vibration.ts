@@ -1,9 +1,8 @@
 // Vibration: broadband velocity r.m.s. in the ISO 20816-3 band, integrated from acceleration in the frequency
 // domain, the zone for the machine group and support, and the 1×, 2×, 2×line-frequency and pole-pass lines.
 import type { Channel, Nameplate, VibrationResult } from "./types.ts";
-import { realSpectrum, findPeak, type LineSpectrum, type Peak } from "./spectrum.ts";
+import { realSpectrum, findPeak, lineVelocityMmS, unitScale, type LineSpectrum, type Peak, type SignalQuantity } from "./spectrum.ts";
 import { decimateReal } from "./zoom.ts";
-import { STANDARD_GRAVITY } from "./formulas.ts";
 import { nextPow2 } from "./fft.ts";
 
 export type Zone = "A" | "B" | "C" | "D";
@@ -37,17 +36,10 @@ export function machineGroup(nameplate: Nameplate): 1 | 2 {
   return nameplate.ratedKw && nameplate.ratedKw > 300 ? 1 : 2;
 }
 
-type Quantity = "acceleration" | "velocity";
+type Quantity = SignalQuantity;
 
-/** Factor from channel unit to SI (m/s² or m/s) and which quantity it is. */
-export function unitScale(unit: string): { scale: number; quantity: Quantity } {
-  const u = unit.toLowerCase().replace(/\s/g, "");
-  if (u === "g") return { scale: STANDARD_GRAVITY, quantity: "acceleration" };
-  if (u === "mm/s") return { scale: 1e-3, quantity: "velocity" };
-  if (u === "m/s") return { scale: 1, quantity: "velocity" };
-  if (u === "in/s" || u === "ips") return { scale: 0.0254, quantity: "velocity" };
-  return { scale: 1, quantity: "acceleration" }; // m/s2, m/s^2, m/s²
-}
+/** Factor from channel unit to SI (m/s² or m/s) and which quantity it is (shared with the display spectrum). */
+export { unitScale };
 
 /**
  * Velocity r.m.s. (mm/s) over [loHz, hiHz] from a Welch-averaged Hann spectrum: v_rms = √(Σ (a_k/(2πf_k))²/ENBW)
@@ -96,10 +88,7 @@ export function analyzeVibration(ch: Channel, fs: number, nameplate: Nameplate, 
   const v = velocityRmsFromSpectrum(welch, quantity, scale, hi);
   const group = machineGroup(nameplate);
   const support = nameplate.support ?? "rigid";
-  const toMmS = (p: Peak) => {
-    const aRms = (p.amp * scale) / Math.SQRT2;
-    return (quantity === "acceleration" ? aRms / (2 * Math.PI * p.hz) : aRms) * 1000;
-  };
+  const toMmS = (p: Peak) => lineVelocityMmS(p.amp, p.hz, ch.unit);
   const res = 1 / lowSpectrum.seconds;
   const twoLine = findPeak(lowSpectrum, 2 * supplyHz - Math.max(3 * res, 0.2), 2 * supplyHz + Math.max(3 * res, 0.2));
   const twoLineOk = twoLine && twoLine.isLocalMax && twoLine.prominenceDb >= 10 ? twoLine : null;

@@ -1,17 +1,18 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
+import { signedIn } from "../helpers/context.ts";
+import { makePipelineEnv, type PipelineEnv } from "../helpers/pipeline.ts";
 import { routeRegistry } from "../../server/http.ts";
 import { can, ROLES, type Role } from "../../server/permissions.ts";
 
 // For every API route the permission module names, each role gets what the matrix says: a role without the
 // permission gets 403 with a JSON error; one with it gets past the check (a 2xx, or a 400/404/409/422 about
 // the dummy request); no session gets 401.
-let env: TestEnv;
+let env: PipelineEnv; // the app as production assembles it: blob store and job queue included
 const agents = {} as Record<Role, request.Agent>;
 
 beforeAll(async () => {
-  env = await makeTestEnv({ loginRateLimit: 1000 });
+  env = await makePipelineEnv({ loginRateLimit: 1000 });
   for (const role of ROLES) agents[role] = await signedIn(env.app, role);
 });
 afterAll(async () => env.close());
