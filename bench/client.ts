@@ -13,20 +13,15 @@
 // Env: BENCH_RUNS (3), BENCH_SAMPLES_LOG2 (21), BENCH_PHASES (3), BENCH_KEEP=1 keeps the cluster and build.
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
-import http from "node:http";
 import os from "node:os";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { gzipSync } from "node:zlib";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { loadConfig, type Config } from "../server/config.ts";
+import { startServer } from "../server/index.ts";
 import { createKnex, ensureDatabase, migrateLatest } from "../server/db.ts";
-import { createApp } from "../server/app.ts";
-import { createMailer } from "../server/mail/mailer.ts";
-import { installPipeline } from "../server/captures/pipeline.ts";
-import { installRealtime } from "../server/realtime.ts";
 import { clearSignalCaches } from "../server/captures/signal-views.ts";
-import type { AppContext } from "../server/context.ts";
 import { seedDemoUsers, DEMO_PASSWORD, DEMO_USERS } from "../server/seed/demo-users.ts";
 import { synthCapture } from "../src/engine/synth.ts";
 import { writeWav } from "../src/engine/parse/index.ts";
@@ -111,44 +106,6 @@ function htmlAssets(outDir: string): string[] {
     found.add(src.replace(/^\//, "").replace(/\?.*$/, ""));
   }
   return [...found];
-}
-
-// ---------------------------------------------------------------------------------------------------------------
-// The app on a free port, serving the fresh build. (startServer() always serves ROOT/dist; this is the same
-// composition with staticDir pointed at the temp build. Keep in step with server/index.ts.)
-
-interface BenchServer {
-  port: number;
-  ctx: AppContext;
-  close(): Promise<void>;
-}
-
-async function startBenchServer(config: Config, staticDir: string): Promise<BenchServer> {
-  const db = createKnex(config.databaseUrl);
-  await migrateLatest(db);
-  const ctx: AppContext = { db, config, mailer: createMailer(config), services: {} };
-  await installPipeline(ctx);
-  installRealtime(ctx);
-  const app = createApp(ctx, { staticDir });
-  const server = http.createServer(app);
-  const hooks = (ctx.services.onHttpServer as ((s: http.Server) => Promise<void> | void)[] | undefined) ?? [];
-  for (const hook of hooks) await hook(server);
-  await new Promise<void>((resolve, reject) => {
-    server.once("error", reject);
-    server.listen(config.port, config.host, () => resolve());
-  });
-  const port = (server.address() as { port: number }).port;
-  return {
-    port,
-    ctx,
-    async close() {
-      const closers = (ctx.services.onClose as (() => Promise<void>)[] | undefined) ?? [];
-      for (const c of closers) await c().catch(() => undefined);
-      server.closeAllConnections?.();
-      await new Promise<void>((r) => server.close(() => r()));
-      await db.destroy();
-    },
-  };
 }
 
 function startWorker(databaseUrl: string, dataDir: string): Promise<ChildProcess> {
@@ -333,7 +290,7 @@ async function main() {
       BLOB_DRIVER: "fs",
       LOGIN_RATE_LIMIT: "1000",
     });
-    const server = await startBenchServer(config, outDir);
+    const server = await startServer(config, { staticDir: outDir });
     cleanups.push(() => server.close());
     const baseUrl = `http://127.0.0.1:${server.port}`;
     config.publicUrl = baseUrl;

@@ -1,5 +1,6 @@
 import express, { type Router } from "express";
 import helmet from "helmet";
+import compression from "compression";
 import cookieParser from "cookie-parser";
 import { pinoHttp } from "pino-http";
 import pino from "pino";
@@ -30,6 +31,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   app.disable("x-powered-by");
   app.set("trust proxy", "loopback");
   app.use(helmet());
+  app.use(compression());
   if (ctx.config.env !== "test")
     app.use(
       pinoHttp({

@@ -19,7 +19,7 @@ export interface RunningServer {
 }
 
 /** Start the HTTP server (API, static client) and, in development, the local mail fake. */
-export async function startServer(config: Config = loadConfig()): Promise<RunningServer> {
+export async function startServer(config: Config = loadConfig(), opts: { staticDir?: string } = {}): Promise<RunningServer> {
   const db = createKnex(config.databaseUrl);
   await migrateLatest(db);
   const fake = config.mailFake ? await startMailFake({ db, port: config.smtp.port, host: "127.0.0.1" }) : null;
@@ -27,7 +27,7 @@ export async function startServer(config: Config = loadConfig()): Promise<Runnin
   const ctx: AppContext = { db, config, mailer: createMailer(config), services: {} };
   await installPipeline(ctx); // blob store + job queue: services.blob, services.queue
   installRealtime(ctx); // socket.io (live updates, gateway streams): onHttpServer + onClose hooks, services.publish
-  const app = createApp(ctx, { staticDir: path.join(ROOT, "dist") });
+  const app = createApp(ctx, { staticDir: opts.staticDir ?? path.join(ROOT, "dist") });
   const server = http.createServer(app);
   const hooks = (ctx.services.onHttpServer as ((s: http.Server) => Promise<void> | void)[] | undefined) ?? [];
   for (const hook of hooks) await hook(server);
