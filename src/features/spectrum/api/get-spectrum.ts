@@ -1,0 +1,28 @@
+import { keepPreviousData, queryOptions, useQuery } from "@tanstack/react-query";
+import { apiGet } from "../../../lib/api.ts";
+import { captureKeys, type SpectrumParams } from "./keys.ts";
+
+export interface SpectrumResponse {
+  channel: string;
+  unit: string;
+  fMin: number;
+  fMax: number;
+  resolutionHz: number;
+  decimated: boolean;
+  hz: number[];
+  min: number[];
+  max: number[];
+}
+
+/** Spectra never change once computed: cache for good and skip structural sharing of the big arrays. */
+export const spectrumQueryOptions = (captureId: number, p: SpectrumParams) =>
+  queryOptions({
+    queryKey: captureKeys.spectrum(captureId, p),
+    queryFn: ({ signal }) => apiGet<SpectrumResponse>(`/captures/${captureId}/spectrum`, { ...p }, signal),
+    staleTime: Infinity,
+    structuralSharing: false,
+    placeholderData: keepPreviousData,
+  });
+
+export const useSpectrum = (captureId: number | null, p: SpectrumParams | null) =>
+  useQuery({ ...spectrumQueryOptions(captureId ?? NaN, p ?? { channel: "", kind: "current", buckets: 0 }), enabled: captureId !== null && p !== null && !!p.channel });

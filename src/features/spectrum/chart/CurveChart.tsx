@@ -1,0 +1,198 @@
+// A plain x–y chart of one or more curves on a shared x array, with annotated points (operating points, key
+// points) and horizontal guide lines (grade boundaries, zone limits) drawn on top. Used by the motor page trends,
+// the motor-model curves and the calculator.
+import { useMemo, useRef } from "react";
+import type uPlot from "uplot";
+import { axis, MONO_FONT, UPlotChart } from "./UPlotChart.tsx";
+
+export interface CurveSeries {
+  label: string;
+  values: (number | null)[];
+  color: string;
+  width?: number;
+  dash?: number[];
+  /** Draw the samples as dots (measured points) rather than only a line. */
+  points?: boolean;
+  /** Join over nulls (measured series on a merged x grid). */
+  spanGaps?: boolean;
+}
+
+export interface AnnotatedPoint {
+  x: number;
+  y: number;
+  label?: string;
+  color: string;
+  /** 0..1: older history points are drawn fainter. */
+  alpha?: number;
+  shape?: "dot" | "ring" | "diamond";
+  size?: number;
+}
+
+export interface GuideLine {
+  y: number;
+  label: string;
+  color?: string;
+  dash?: number[];
+}
+
+export interface RegionLabel {
+  from: number;
+  to: number;
+  label: string;
+}
+
+export interface CurveChartProps {
+  x: number[];
+  series: CurveSeries[];
+  /** Pairs of series indexes (1-based in uPlot terms: series[0] is 1) filled between. */
+  bands?: { upper: number; lower: number; fill: string }[];
+  xLabel: string;
+  yLabel: string;
+  xTime?: boolean;
+  height?: number;
+  points?: AnnotatedPoint[];
+  guides?: GuideLine[];
+  regions?: RegionLabel[];
+  yRange?: [number, number];
+  xRange?: [number, number];
+  label: string;
+  yDigits?: number;
+}
+
+export function CurveChart(props: CurveChartProps) {
+  const { x, series, bands, xLabel, yLabel, xTime, height = 260, label, yDigits } = props;
+  const overlay = useRef(props);
+  overlay.current = props;
+  const key = `${series.map((s) => s.label).join("|")}|${xLabel}|${yLabel}|${xTime}|${bands?.length}|${props.yRange}|${props.xRange}`;
+  const options = useMemo<Omit<uPlot.Options, "width" | "height">>(
+    () => ({
+      legend: { show: false },
+      scales: {
+        x: { time: !!xTime, ...(props.xRange ? { range: () => props.xRange! } : {}) },
+        y: props.yRange ? { range: () => props.yRange! } : { range: (_u, lo, hi) => padRange(lo, hi, overlay.current.guides) },
+      },
+      series: [
+        {},
+        ...series.map<uPlot.Series>((s) => ({
+          label: s.label,
+          stroke: s.color,
+          width: s.width ?? 1.5,
+          dash: s.dash,
+          spanGaps: s.spanGaps,
+          points: s.points ? { show: true, size: 6, fill: s.color, stroke: s.color } : { show: false },
+        })),
+      ],
+      bands: bands?.map((b) => ({ series: [b.upper, b.lower] as [number, number], fill: b.fill })),
+      axes: [
+        axis(xLabel, xTime ? { values: (_u, splits, _i, _space, incr) => dateTicks(splits, incr) } : {}),
+        axis(yLabel, { size: 60, values: yDigits === undefined ? undefined : (_u, splits) => splits.map((v) => (v == null ? "" : v.toFixed(yDigits).replace("-", "\u2212"))) }),
+      ],
+      cursor: { drag: { x: false, y: false }, points: { show: false } },
+      hooks: { draw: [(u) => drawAnnotations(u, overlay.current)] },
+    }),
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+    [key],
+  );
+  const data = useMemo(() => [x, ...series.map((s) => s.values)] as uPlot.AlignedData, [x, series]);
+  return <UPlotChart options={options} optionsKey={key} data={data} height={height} label={label} redrawKey={`${props.points?.length}|${props.guides?.length}`} />;
+}
+
+function padRange(lo: number, hi: number, guides?: GuideLine[]): [number, number] {
+  let a = Number.isFinite(lo) ? lo : 0;
+  let b = Number.isFinite(hi) ? hi : 1;
+  // keep nearby guides in view so boundaries are visible next to the data
+  for (const g of guides ?? []) {
+    if (g.y < a && a - g.y < Math.max(8, (b - a) * 0.6)) a = g.y;
+    if (g.y > b && g.y - b < Math.max(8, (b - a) * 0.6)) b = g.y;
+  }
+  const pad = Math.max((b - a) * 0.08, Math.abs(b) * 0.02, 0.01);
+  return [a - pad, b + pad];
+}
+
+function drawAnnotations(u: uPlot, p: CurveChartProps) {
+  const { ctx, bbox } = u;
+  const pr = bbox.width / Math.max(1, u.over.clientWidth || bbox.width);
+  ctx.save();
+  ctx.font = MONO_FONT.replace("12px", `${Math.round(11 * pr)}px`);
+  const yMin = u.scales.y.min ?? 0;
+  const yMax = u.scales.y.max ?? 1;
+  for (const r of p.regions ?? []) {
+    const lo = Math.max(Math.min(r.from, r.to), yMin);
+    const hi = Math.min(Math.max(r.from, r.to), yMax);
+    if (hi - lo < (yMax - yMin) * 0.04) continue;
+    const y = u.valToPos((lo + hi) / 2, "y", true);
+    ctx.fillStyle = "rgba(89,92,97,0.75)";
+    ctx.textAlign = "right";
+    ctx.textBaseline = "middle";
+    ctx.fillText(r.label, bbox.left + bbox.width - 6 * pr, y);
+  }
+  for (const g of p.guides ?? []) {
+    if (g.y < yMin || g.y > yMax) continue;
+    const y = u.valToPos(g.y, "y", true);
+    ctx.strokeStyle = g.color ?? "rgba(89,92,97,0.7)";
+    ctx.lineWidth = 1 * pr;
+    ctx.setLineDash((g.dash ?? [4, 3]).map((d) => d * pr));
+    ctx.beginPath();
+    ctx.moveTo(bbox.left, y);
+    ctx.lineTo(bbox.left + bbox.width, y);
+    ctx.stroke();
+    ctx.setLineDash([]);
+    ctx.fillStyle = g.color ?? "rgba(89,92,97,0.95)";
+    ctx.textAlign = "left";
+    ctx.textBaseline = "bottom";
+    ctx.fillText(g.label, bbox.left + 4 * pr, y - 2 * pr);
+  }
+  for (const pt of p.points ?? []) {
+    const xMin = u.scales.x.min ?? -Infinity;
+    const xMax = u.scales.x.max ?? Infinity;
+    const xv = p.xTime ? pt.x : pt.x;
+    if (xv < xMin || xv > xMax || pt.y < yMin || pt.y > yMax) continue;
+    const cx = u.valToPos(xv, "x", true);
+    const cy = u.valToPos(pt.y, "y", true);
+    const r = (pt.size ?? 4) * pr;
+    ctx.globalAlpha = pt.alpha ?? 1;
+    ctx.fillStyle = pt.color;
+    ctx.strokeStyle = pt.color;
+    ctx.lineWidth = 2 * pr;
+    ctx.beginPath();
+    if (pt.shape === "diamond") {
+      ctx.moveTo(cx, cy - r * 1.3);
+      ctx.lineTo(cx + r * 1.3, cy);
+      ctx.lineTo(cx, cy + r * 1.3);
+      ctx.lineTo(cx - r * 1.3, cy);
+      ctx.closePath();
+      ctx.fill();
+    } else {
+      ctx.arc(cx, cy, r, 0, Math.PI * 2);
+      if (pt.shape === "ring") ctx.stroke();
+      else ctx.fill();
+    }
+    ctx.globalAlpha = 1;
+    if (pt.label) {
+      ctx.fillStyle = "#1c1e20";
+      ctx.textBaseline = "bottom";
+      const w = ctx.measureText(pt.label).width;
+      const right = cx + 8 * pr + w < bbox.left + bbox.width;
+      ctx.textAlign = right ? "left" : "right";
+      ctx.fillText(pt.label, right ? cx + 7 * pr : cx - 7 * pr, cy - 4 * pr);
+    }
+  }
+  ctx.restore();
+}
+
+const DAY_S = 86_400;
+const dayMonth = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short" });
+const monthYear = new Intl.DateTimeFormat("en-GB", { month: "short", year: "numeric" });
+const monthOnly = new Intl.DateTimeFormat("en-GB", { month: "short" });
+const dayMonthTime = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" });
+
+/** Date tick labels in the app's day-month style; months once the ticks are a month or more apart. */
+function dateTicks(splits: number[], incrS: number): string[] {
+  return splits.map((s, i) => {
+    if (s == null) return "";
+    const d = new Date(s * 1000);
+    if (incrS >= 28 * DAY_S) return i === 0 || d.getMonth() === 0 ? monthYear.format(d) : monthOnly.format(d);
+    if (incrS >= DAY_S) return dayMonth.format(d);
+    return dayMonthTime.format(d);
+  });
+}

@@ -1,0 +1,436 @@
+// One spectrum with its controls: channel/phase switch, around-supply / full-range views, zoom and pan (refetching
+// the window at full resolution), cursor readout, marker families, earlier-capture overlay and the keyboard.
+import { useEffect, useMemo, useRef, useState, type KeyboardEvent } from "react";
+import { Button } from "../../../components/Button.tsx";
+import { Select } from "../../../components/Form.tsx";
+import { Spinner } from "../../../components/Spinner.tsx";
+import { errorMessage } from "../../../lib/api.ts";
+import type { Capture } from "../../../lib/contracts.ts";
+import { formatDateTime } from "../../../lib/format.ts";
+import type { Marker } from "../../../engine/types.ts";
+import { useSpectrum } from "../api/get-spectrum.ts";
+import { familyForKey, familyStyle, MARKER_FAMILIES } from "../lib/marker-style.ts";
+import { useDebounced } from "../lib/use-debounced.ts";
+import {
+  cursorReadout,
+  findPeaks,
+  minMaxDecimate,
+  nearestIndex,
+  panRange,
+  resampleOnto,
+  signed,
+  stepPeak,
+  supplyWindow,
+  zoomRange,
+  type Range,
+} from "../lib/viewer-math.ts";
+import { OVERLAY_COLOR, SpectrumPlot } from "./SpectrumPlot.tsx";
+
+export interface ViewerChannel {
+  name: string;
+  position?: string | null;
+  unit: string;
+}
+
+export interface SpectrumViewerProps {
+  captureId: number;
+  kind: "current" | "vibration";
+  channels: ViewerChannel[];
+  sampleRate: number;
+  supplyHz: number | null;
+  slip: number | null;
+  rpm: number | null;
+  markers: Marker[];
+  /** Other analysed captures of the same motor, newest first (the overlay picker). */
+  earlier: Capture[];
+  /** When this capture was taken, to say whether the compared one is earlier or later. */
+  thisTakenAt?: string | null;
+  title: string;
+  /** Focus the plot on mount (the current spectrum is the screen's main control). */
+  autoFocus?: boolean;
+}
+
+/** Most points per series handed to uPlot; the server already decimates to about one bucket per pixel. */
+const MAX_POINTS = 4000;
+
+export function SpectrumViewer(props: SpectrumViewerProps) {
+  const { captureId, kind, channels, sampleRate, supplyHz, slip, rpm, markers, earlier, title, thisTakenAt } = props;
+  const [channel, setChannel] = useState(channels[0]?.name ?? "");
+  const bounds = useMemo<Range>(() => ({ min: 0, max: sampleRate / 2 }), [sampleRate]);
+  const initialView = useMemo<Range>(() => {
+    if (kind === "vibration") return { min: 0, max: Math.min(bounds.max, Math.max(200, (supplyHz ?? 50) * 5)) };
+    return supplyHz ? supplyWindow(supplyHz, slip) : bounds;
+  }, [kind, supplyHz, slip, bounds]);
+  const [view, setView] = useState<Range>(initialView);
+  const [cursorHz, setCursorHz] = useState<number | null>(null);
+  const [hover, setHover] = useState<{ hz: number; idx: number | null } | null>(null);
+  const [families, setFamilies] = useState<Set<string>>(
+    () => new Set(kind === "vibration" ? ["vibration"] : ["supply", "broken-bar", "eccentricity", "slot", "harmonic"]),
+  );
+  const [overlayId, setOverlayId] = useState<number | null>(null);
+  const [showHelp, setShowHelp] = useState(false);
+  const [note, setNote] = useState<string | null>(null);
+  const box = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (props.autoFocus) box.current?.focus({ preventScroll: true });
+  }, [props.autoFocus]);
+  // About one bucket per canvas pixel of a wide plot; the server returns every bin when the window holds fewer.
+  const buckets = 2000;
+
+  const settled = useDebounced(view, 150);
+  const params = useMemo(
+    () => ({ channel, kind, fmin: round(settled.min), fmax: round(settled.max), buckets }),
+    [channel, kind, settled.min, settled.max, buckets],
+  );
+  const spectrum = useSpectrum(captureId, params);
+  const overlayCapture = earlier.find((c) => c.id === overlayId) ?? null;
+  const overlayChannel = overlayCapture ? pickChannel(overlayCapture, kind, channel, channels.find((c) => c.name === channel)?.position) : null;
+  const overlay = useSpectrum(overlayCapture ? overlayCapture.id : null, overlayChannel ? { ...params, channel: overlayChannel } : null);
+
+  const s = spectrum.data;
+  const shown = useMemo(() => {
+    if (!s) return null;
+    // The server answers ≤ buckets points; re-bucket defensively so uPlot never gets more than a few thousand.
+    if (s.hz.length <= MAX_POINTS) return { x: s.hz, min: s.min, max: s.max };
+    const d = minMaxDecimate(s.hz, s.min, s.max, MAX_POINTS);
+    return { x: Array.from(d.x), min: Array.from(d.min), max: Array.from(d.max) };
+  }, [s]);
+  const overlayOnGrid = useMemo(() => (shown && overlay.data ? resampleOnto(shown.x, overlay.data.hz, overlay.data.max) : null), [shown, overlay.data]);
+
+  const isCurrent = kind === "current";
+  const peakValues = useMemo(() => (shown ? (isCurrent ? shown.max : shown.max.map((v) => 20 * Math.log10(Math.max(v, 1e-6)))) : []), [shown, isCurrent]);
+  // Peaks worth stepping to: at least 10 dB of topographic prominence (window side lobes and noise have less).
+  const peaks = useMemo(() => findPeaks(peakValues, { prominence: 10, halfWidth: 400 }), [peakValues]);
+
+  // The engine tags markers with the channel it measured them on; the frequencies hold for every phase / axis, so
+  // a channel without its own markers shows those of the analysed one (and says so).
+  const { channelMarkers, markerSource } = useMemo(() => {
+    const own = markers.filter((m) => m.channel === channel);
+    if (own.length) return { channelMarkers: own, markerSource: channel };
+    const names = new Set(channels.map((c) => c.name));
+    const source = markers.find((m) => names.has(m.channel))?.channel ?? markers[0]?.channel ?? channel;
+    return { channelMarkers: markers.filter((m) => m.channel === source), markerSource: source };
+  }, [markers, channel, channels]);
+  const presentFamilies = MARKER_FAMILIES.filter((f) => markers.some((m) => m.family === f.family));
+
+  const levelAt = (hz: number): number | null => {
+    if (!shown) return null;
+    const i = nearestIndex(shown.x, hz);
+    return i >= 0 ? shown.max[i] : null;
+  };
+  const cursor = cursorHz !== null ? cursorReadout(cursorHz, levelAt(cursorHz), supplyHz, slip) : null;
+  const pointer = hover ? cursorReadout(hover.hz, hover.idx !== null && shown ? (shown.max[hover.idx] ?? null) : levelAt(hover.hz), supplyHz, slip) : null;
+
+  const unit = s?.unit ?? (isCurrent ? "dB" : "mm/s");
+  const hzDigits = s ? Math.max(2, Math.min(4, Math.ceil(-Math.log10(Math.max(s.resolutionHz, 1e-6))) + 1)) : 2;
+  const fr = rpm ? rpm / 60 : null;
+
+  const toggleFamily = (family: string) =>
+    setFamilies((prev) => {
+      const next = new Set(prev);
+      if (next.has(family)) next.delete(family);
+      else next.add(family);
+      return next;
+    });
+
+  const moveTo = (hz: number) => {
+    setCursorHz(hz);
+    if (hz < view.min || hz > view.max) setView((v) => panRange(v, (hz - (v.min + v.max) / 2) / (v.max - v.min), bounds));
+  };
+
+  const step = (dir: 1 | -1) => {
+    if (!shown) return;
+    const from = cursorHz ?? (supplyHz && supplyHz > view.min && supplyHz < view.max ? supplyHz : dir > 0 ? view.min : view.max);
+    // Half a bin of tolerance: starting on a peak (e.g. the supply line) moves on to the next one.
+    const i = stepPeak(shown.x, peaks, from, dir, (s?.resolutionHz ?? 0) / 2 + 1e-9);
+    if (i === null) {
+      setNote(dir > 0 ? "No further peak to the right in this view." : "No further peak to the left in this view.");
+      return;
+    }
+    setNote(null);
+    moveTo(shown.x[i]);
+  };
+
+  const minSpan = Math.max(0.05, (s?.resolutionHz ?? 0.01) * 20);
+  const zoom = (factor: number, center?: number) => setView((v) => zoomRange(v, factor, bounds, center ?? (cursorHz !== null && cursorHz >= v.min && cursorHz <= v.max ? cursorHz : undefined), minSpan));
+
+  const onKeyDown = (e: KeyboardEvent<HTMLDivElement>) => {
+    if (e.target instanceof HTMLInputElement || e.target instanceof HTMLSelectElement || e.target instanceof HTMLTextAreaElement) return;
+    if (e.altKey || e.ctrlKey || e.metaKey) return;
+    const k = e.key;
+    let handled = true;
+    if (k === "ArrowRight" && e.shiftKey) setView((v) => panRange(v, 0.25, bounds));
+    else if (k === "ArrowLeft" && e.shiftKey) setView((v) => panRange(v, -0.25, bounds));
+    else if (k === "ArrowRight") step(1);
+    else if (k === "ArrowLeft") step(-1);
+    else if (k === "+" || k === "=") zoom(0.5);
+    else if (k === "-" || k === "_") zoom(2);
+    else if (k === "a" && isCurrent) setView(initialView);
+    else if (k === "f") setView(bounds);
+    else if (k === "Escape") setCursorHz(null);
+    else if (k === "?") setShowHelp((x) => !x);
+    else {
+      const fam = familyForKey(k);
+      if (fam && presentFamilies.some((f) => f.family === fam.family)) toggleFamily(fam.family);
+      else handled = false;
+    }
+    if (handled) e.preventDefault();
+  };
+
+  const yLabel = isCurrent ? "Level (dB re supply)" : `Velocity (${unit})`;
+  const chInfo = channels.find((c) => c.name === channel);
+
+  return (
+    <div
+      ref={box}
+      tabIndex={0}
+      onKeyDown={onKeyDown}
+      onMouseDown={(e) => {
+        if (!(e.target instanceof HTMLInputElement || e.target instanceof HTMLSelectElement || e.target instanceof HTMLButtonElement)) e.currentTarget.focus();
+      }}
+      aria-label={`${title}: press ? for keys`}
+      className="rounded-md outline-none focus-visible:ring-2 focus-visible:ring-brand/40"
+      data-testid={`spectrum-${kind}`}
+    >
+      <div className="mb-2 flex flex-wrap items-center gap-2">
+        {channels.length > 1 && (
+          <div role="group" aria-label="Channel" className="inline-flex overflow-hidden rounded-md border border-line-strong">
+            {channels.map((c) => (
+              <button
+                key={c.name}
+                type="button"
+                aria-pressed={c.name === channel}
+                onClick={() => setChannel(c.name)}
+                className={`px-2.5 py-1 text-caption ${c.name === channel ? "bg-brand text-brand-ink" : "bg-surface hover:bg-sunken"}`}
+              >
+                <span className="num">{c.name}</span>
+                {c.position && <span className="ml-1 opacity-80">{isCurrent ? `phase ${c.position}` : `axis ${c.position}`}</span>}
+              </button>
+            ))}
+          </div>
+        )}
+        {channels.length === 1 && (
+          <span className="text-caption text-ink-muted">
+            Channel <span className="num text-ink">{channel}</span>
+            {chInfo?.position && <> · {isCurrent ? "phase" : "axis"} {chInfo.position}</>}
+          </span>
+        )}
+        <span className="mx-1 h-5 w-px bg-line" aria-hidden="true" />
+        {isCurrent && (
+          <Button size="sm" onClick={() => setView(initialView)} aria-pressed={sameRange(view, initialView)} title="Key a">
+            Around supply
+          </Button>
+        )}
+        <Button size="sm" onClick={() => setView(bounds)} aria-pressed={sameRange(view, bounds)} title="Key f">
+          Full range
+        </Button>
+        <Button size="sm" onClick={() => zoom(0.5)} title="Zoom in (+)" aria-label="Zoom in">
+          +
+        </Button>
+        <Button size="sm" onClick={() => zoom(2)} title="Zoom out (−)" aria-label="Zoom out">
+          −
+        </Button>
+        <Button size="sm" onClick={() => setView((v) => panRange(v, -0.25, bounds))} title="Pan left (Shift+←)" aria-label="Pan left">
+          ◀
+        </Button>
+        <Button size="sm" onClick={() => setView((v) => panRange(v, 0.25, bounds))} title="Pan right (Shift+→)" aria-label="Pan right">
+          ▶
+        </Button>
+        <span className="num text-caption text-ink-muted" aria-live="polite">
+          {view.min.toFixed(hzDigits)} – {view.max.toFixed(hzDigits)} Hz
+        </span>
+        <span className="ml-auto flex items-center gap-2">
+          {earlier.length > 0 && (
+            <label className="flex items-center gap-1.5 text-caption text-ink-muted">
+              Compare with
+              <Select className="!w-auto !py-0.5 text-caption" value={overlayId ?? ""} onChange={(e) => setOverlayId(e.target.value ? Number(e.target.value) : null)}>
+                <option value="">none</option>
+                {earlier.map((c) => (
+                  <option key={c.id} value={c.id}>
+                    {formatDateTime(c.takenAt ?? c.createdAt)} · #{c.id}
+                  </option>
+                ))}
+              </Select>
+            </label>
+          )}
+          <Button size="sm" variant="ghost" onClick={() => setShowHelp((x) => !x)} aria-expanded={showHelp}>
+            Keys ?
+          </Button>
+        </span>
+      </div>
+
+      <div className="relative">
+        {shown ? (
+          <SpectrumPlot
+            hz={shown.x}
+            min={shown.min}
+            max={shown.max}
+            overlay={overlayOnGrid}
+            view={view}
+            markers={channelMarkers}
+            families={families}
+            cursorHz={cursorHz}
+            yLabel={yLabel}
+            yDigits={isCurrent ? 0 : 2}
+            label={`${title}, ${channel}, ${view.min.toFixed(1)} to ${view.max.toFixed(1)} Hz`}
+            onSelectRange={(r) => setView(zoomRange(r, 1, bounds, undefined, minSpan))}
+            onPick={(hz) => {
+              setNote(null);
+              setCursorHz(hz);
+            }}
+            onHover={(hz, idx) => setHover(hz === null ? null : { hz, idx })}
+            onWheelZoom={(c, f) => zoom(f, c)}
+          />
+        ) : spectrum.isError ? (
+          <div role="alert" className="flex h-[360px] items-center justify-center rounded-md border border-danger/30 bg-danger-soft text-danger">
+            {errorMessage(spectrum.error)}
+          </div>
+        ) : (
+          <div className="flex h-[360px] items-center justify-center">
+            <Spinner label="Loading spectrum…" />
+          </div>
+        )}
+        {spectrum.isFetching && shown && (
+          <span className="absolute right-2 top-1 rounded-sm bg-surface/90 px-1.5 text-caption text-ink-muted">refining…</span>
+        )}
+      </div>
+
+      <div className="mt-2 flex flex-wrap items-start gap-x-6 gap-y-2">
+        <div className="min-w-[18rem] flex-1">
+          <Readout title="Cursor" r={cursor} unit={unit} hzDigits={hzDigits} isCurrent={isCurrent} fr={fr} supplyHz={supplyHz} />
+          <Readout title="Pointer" r={pointer} unit={unit} hzDigits={hzDigits} isCurrent={isCurrent} fr={fr} supplyHz={supplyHz} faint />
+          {note && <p className="text-caption text-ink-muted">{note}</p>}
+        </div>
+        <div className="text-caption text-ink-muted">
+          {s && (
+            <>
+              Resolution <span className="num text-ink">{s.resolutionHz.toPrecision(3)} Hz</span> ·{" "}
+              {s.decimated ? <>min/max of {s.hz.length} buckets (zoom in for every bin)</> : <>every bin shown ({s.hz.length})</>}
+              {overlayCapture && (
+                <>
+                  <br />
+                  <span className="mr-1 inline-block w-5 border-t-2 border-dashed align-middle" style={{ borderColor: OVERLAY_COLOR }} />
+                  compared with capture #{overlayCapture.id} ({formatDateTime(overlayCapture.takenAt)}
+                  {thisTakenAt && overlayCapture.takenAt && overlayCapture.takenAt > thisTakenAt ? ", later" : ", earlier"}), channel {overlayChannel}
+                  {overlay.isFetching && " …"}
+                </>
+              )}
+            </>
+          )}
+        </div>
+      </div>
+
+      {presentFamilies.length > 0 && (
+        <fieldset className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1">
+          <legend className="sr-only">Marker families</legend>
+          <span className="text-caption text-ink-muted">
+            Markers{markerSource !== channel ? <> (found on <span className="num">{markerSource}</span>)</> : null}:
+          </span>
+          {presentFamilies.map((f) => (
+            <label key={f.family} className="inline-flex cursor-pointer items-center gap-1.5 text-caption">
+              <input type="checkbox" checked={families.has(f.family)} onChange={() => toggleFamily(f.family)} />
+              <svg width="22" height="8" aria-hidden="true">
+                <line x1="0" y1="4" x2="22" y2="4" stroke={f.color} strokeWidth="2" strokeDasharray={f.dash.join(" ")} />
+              </svg>
+              <kbd className="num rounded-sm border border-line-strong px-1 text-[0.7rem]">{f.key}</kbd>
+              {f.label}
+            </label>
+          ))}
+        </fieldset>
+      )}
+
+      {showHelp && <KeyHelp isCurrent={isCurrent} families={presentFamilies.map((f) => f.family)} />}
+    </div>
+  );
+}
+
+function Readout(props: {
+  title: string;
+  r: ReturnType<typeof cursorReadout> | null;
+  unit: string;
+  hzDigits: number;
+  isCurrent: boolean;
+  fr: number | null;
+  supplyHz: number | null;
+  faint?: boolean;
+}) {
+  const { title, r, unit, hzDigits, isCurrent, fr, faint } = props;
+  return (
+    <div className={`flex flex-wrap items-baseline gap-x-4 text-body ${faint ? "text-ink-muted" : ""}`} aria-live={faint ? undefined : "polite"}>
+      <span className="w-14 text-caption font-semibold uppercase tracking-wide text-ink-muted">{title}</span>
+      {r ? (
+        <>
+          <span className="num">{r.hz.toFixed(hzDigits)} Hz</span>
+          <span className="num">{r.level === null ? "—" : `${fmtSigned(r.level, isCurrent ? 1 : 3)} ${unit}`}</span>
+          {isCurrent ? (
+            <>
+              <span className="num" title="Offset from the supply line">
+                {r.offsetHz === null ? "—" : `${signed(r.offsetHz, hzDigits)} Hz`}
+              </span>
+              <span className="num" title="Offset in multiples of the slip frequency s·f">
+                {r.label}
+              </span>
+              {r.supplyOrder !== null && <span className="num text-ink-muted">{r.supplyOrder.toFixed(3)}× f</span>}
+            </>
+          ) : (
+            <>
+              {fr && <span className="num" title="Multiple of the running speed">{(r.hz / fr).toFixed(3)}× fr</span>}
+              {r.supplyOrder !== null && <span className="num text-ink-muted">{r.supplyOrder.toFixed(3)}× LF</span>}
+            </>
+          )}
+        </>
+      ) : (
+        <span className="text-caption text-ink-faint">{faint ? "move over the plot" : "click the plot or press → to step to a peak"}</span>
+      )}
+    </div>
+  );
+}
+
+function KeyHelp({ isCurrent, families }: { isCurrent: boolean; families: string[] }) {
+  const rows: [string, string][] = [
+    ["← / →", "Step the cursor to the previous / next peak"],
+    ["Shift + ← / →", "Pan a quarter of the view"],
+    ["+ / −", "Zoom in / out about the cursor (or the wheel over the plot)"],
+    ["drag", "Zoom to the dragged span"],
+    ...(isCurrent ? ([["a", "Back to the band around the supply"]] as [string, string][]) : []),
+    ["f", "Full range"],
+    ["Esc", "Clear the cursor"],
+    ...families.map((f) => [familyStyle(f).key, `Show / hide ${familyStyle(f).label}`] as [string, string]),
+    ["?", "Show / hide these keys"],
+  ];
+  return (
+    <div className="mt-2 rounded-md border border-line bg-sunken/50 p-3">
+      <p className="mb-1 text-caption font-semibold text-ink-muted">Keys (click the plot first)</p>
+      <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-0.5 text-caption">
+        {rows.map(([k, v]) => (
+          <div key={k} className="contents">
+            <dt>
+              <kbd className="num rounded-sm border border-line-strong bg-surface px-1">{k}</kbd>
+            </dt>
+            <dd>{v}</dd>
+          </div>
+        ))}
+      </dl>
+    </div>
+  );
+}
+
+/** The overlay capture's channel: the same name, else the same phase/axis, else its first channel of the kind. */
+function pickChannel(c: Capture, kind: string, name: string, position: string | null | undefined): string | null {
+  const same = c.channels.filter((ch) => ch.kind === kind);
+  if (same.some((ch) => ch.name === name)) return name;
+  const byPos = position ? same.find((ch) => ch.position === position) : undefined;
+  return byPos?.name ?? same[0]?.name ?? null;
+}
+
+function round(x: number): number {
+  return Number(x.toPrecision(7));
+}
+
+function sameRange(a: Range, b: Range): boolean {
+  return Math.abs(a.min - b.min) < 1e-9 && Math.abs(a.max - b.max) < 1e-9;
+}
+
+function fmtSigned(x: number, digits: number): string {
+  return x.toFixed(digits).replace("-", "\u2212");
+}

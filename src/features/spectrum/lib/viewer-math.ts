@@ -1,0 +1,337 @@
+// Pure maths of the spectrum viewer: where a marker sits on the plot, what the cursor reads, how a long
+// series is reduced for display, how the cursor steps between peaks and how the view zooms and pans.
+// No React, DOM or uPlot here, so the client tests exercise exactly what the screen uses.
+
+export interface LinearScale {
+  /** Value at the left edge of the plot area. */
+  min: number;
+  /** Value at the right edge of the plot area. */
+  max: number;
+}
+
+export interface PlotBox {
+  /** Left edge of the plot area, px (CSS or canvas pixels, the caller's choice). */
+  left: number;
+  width: number;
+}
+
+/** x pixel of a value on a linear axis, or null when it lies outside the visible range. */
+export function valueToX(value: number, scale: LinearScale, box: PlotBox): number | null {
+  const span = scale.max - scale.min;
+  if (!(span > 0) || !Number.isFinite(value)) return null;
+  if (value < scale.min || value > scale.max) return null;
+  return box.left + ((value - scale.min) / span) * box.width;
+}
+
+/** Inverse of valueToX (unclamped). */
+export function xToValue(x: number, scale: LinearScale, box: PlotBox): number {
+  return scale.min + ((x - box.left) / box.width) * (scale.max - scale.min);
+}
+
+export interface MarkerLike {
+  name: string;
+  family: string;
+  hz: number;
+  level: number;
+  channel: string;
+}
+
+export interface PlacedMarker<M extends MarkerLike = MarkerLike> {
+  marker: M;
+  x: number;
+  /** Label row from the top (0, 1, 2 …) so neighbouring labels do not overlap. */
+  row: number;
+}
+
+/**
+ * Places the markers of the enabled families on the x axis (exactly at the engine's frequencies) and stacks
+ * their labels in rows so that two labels closer than their width never share a row.
+ */
+export function placeMarkers<M extends MarkerLike>(
+  markers: readonly M[],
+  scale: LinearScale,
+  box: PlotBox,
+  opts: { families?: ReadonlySet<string>; channel?: string; labelWidth?: (m: M) => number; maxRows?: number } = {},
+): PlacedMarker<M>[] {
+  const width = opts.labelWidth ?? ((m: M) => 8 + 7 * m.name.length);
+  const maxRows = opts.maxRows ?? 4;
+  const visible: { marker: M; x: number }[] = [];
+  for (const m of markers) {
+    if (opts.families && !opts.families.has(m.family)) continue;
+    if (opts.channel !== undefined && m.channel !== opts.channel) continue;
+    const x = valueToX(m.hz, scale, box);
+    if (x !== null) visible.push({ marker: m, x });
+  }
+  visible.sort((a, b) => a.x - b.x);
+  const rowEnds: number[] = [];
+  return visible.map(({ marker, x }) => {
+    const w = width(marker);
+    const left = x - w / 2;
+    let row = rowEnds.findIndex((end) => end <= left);
+    if (row === -1) row = rowEnds.length < maxRows ? rowEnds.length : rowEnds.indexOf(Math.min(...rowEnds));
+    rowEnds[row] = x + w / 2;
+    return { marker, x, row };
+  });
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Cursor readout
+
+export interface CursorReadout {
+  hz: number;
+  level: number | null;
+  /** hz − supply, Hz; null without a supply frequency. */
+  offsetHz: number | null;
+  /** Slip frequency s·f, Hz; null without slip. */
+  slipHz: number | null;
+  /** (hz − f) / (s·f): the offset in multiples of the slip frequency; null without slip. */
+  slipMultiple: number | null;
+  /** hz / f: the harmonic order of the supply. */
+  supplyOrder: number | null;
+  /** Offset written in the viewer's notation, e.g. "f − 2.00sf" or "f + 3.10 Hz". */
+  label: string;
+}
+
+const MINUS = "\u2212";
+
+/** Signed number with a typographic minus. */
+export function signed(x: number, digits: number): string {
+  const s = Math.abs(x).toFixed(digits);
+  if (Number(s) === 0) return `+${s}`;
+  return x < 0 ? `${MINUS}${s}` : `+${s}`;
+}
+
+/** The offset as "f ± k·sf" when slip is known, else "f ± Δ Hz". */
+export function offsetLabel(offsetHz: number | null, slipMultiple: number | null): string {
+  if (offsetHz === null) return "—";
+  if (slipMultiple !== null && Number.isFinite(slipMultiple)) {
+    const k = Math.abs(slipMultiple);
+    if (k < 0.005) return "f";
+    return `f ${slipMultiple < 0 ? MINUS : "+"} ${k.toFixed(2)}sf`;
+  }
+  if (Math.abs(offsetHz) < 0.0005) return "f";
+  return `f ${offsetHz < 0 ? MINUS : "+"} ${Math.abs(offsetHz).toFixed(3)} Hz`;
+}
+
+/**
+ * What the cursor reads at hz. The label uses multiples of s·f near the supply line (|k| ≤ maxMultiple, where the
+ * rotor-related sidebands live) and plain hertz further out, where a multiple of s·f means nothing to an analyst.
+ */
+export function cursorReadout(hz: number, level: number | null, supplyHz: number | null, slip: number | null, maxMultiple = 20): CursorReadout {
+  const offsetHz = supplyHz !== null && Number.isFinite(supplyHz) ? hz - supplyHz : null;
+  const slipHz = supplyHz !== null && slip !== null && slip > 0 ? slip * supplyHz : null;
+  const slipMultiple = offsetHz !== null && slipHz !== null ? offsetHz / slipHz : null;
+  const supplyOrder = supplyHz !== null && supplyHz > 0 ? hz / supplyHz : null;
+  const near = slipMultiple !== null && Math.abs(slipMultiple) <= maxMultiple;
+  return { hz, level, offsetHz, slipHz, slipMultiple, supplyOrder, label: offsetLabel(offsetHz, near ? slipMultiple : null) };
+}
+
+/** Index of the sample nearest to hz in an ascending array (binary search); -1 for an empty array. */
+export function nearestIndex(xs: ArrayLike<number>, hz: number): number {
+  const n = xs.length;
+  if (n === 0) return -1;
+  let lo = 0;
+  let hi = n - 1;
+  if (hz <= xs[0]) return 0;
+  if (hz >= xs[hi]) return hi;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (xs[mid] <= hz) lo = mid;
+    else hi = mid;
+  }
+  return hz - xs[lo] <= xs[hi] - hz ? lo : hi;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Min/max decimation
+
+export interface MinMaxSeries {
+  x: Float64Array;
+  min: Float64Array;
+  max: Float64Array;
+}
+
+/**
+ * Reduces (x, min, max) to at most `buckets` buckets of equal width in x over [xMin, xMax]: each bucket keeps
+ * the lowest min and the highest max of its samples, at the x of its highest max (so a peak stays where it is).
+ * When the range holds ≤ buckets samples they come back unchanged (full resolution). Empty buckets are dropped.
+ */
+export function minMaxDecimate(
+  x: ArrayLike<number>,
+  min: ArrayLike<number>,
+  max: ArrayLike<number>,
+  buckets: number,
+  xMin = x.length ? x[0] : 0,
+  xMax = x.length ? x[x.length - 1] : 0,
+): MinMaxSeries {
+  let first = 0;
+  while (first < x.length && x[first] < xMin) first++;
+  let last = x.length - 1;
+  while (last >= first && x[last] > xMax) last--;
+  const count = last - first + 1;
+  if (count <= 0) return { x: new Float64Array(0), min: new Float64Array(0), max: new Float64Array(0) };
+  if (count <= buckets) {
+    return {
+      x: Float64Array.from({ length: count }, (_, i) => x[first + i]),
+      min: Float64Array.from({ length: count }, (_, i) => min[first + i]),
+      max: Float64Array.from({ length: count }, (_, i) => max[first + i]),
+    };
+  }
+  const outX: number[] = [];
+  const outMin: number[] = [];
+  const outMax: number[] = [];
+  const width = (xMax - xMin) / buckets || 1;
+  let i = first;
+  for (let b = 0; b < buckets && i <= last; b++) {
+    const end = b === buckets - 1 ? Infinity : xMin + (b + 1) * width;
+    let lo = Infinity;
+    let hi = -Infinity;
+    let hiX = NaN;
+    while (i <= last && x[i] < end) {
+      if (min[i] < lo) lo = min[i];
+      if (max[i] > hi) {
+        hi = max[i];
+        hiX = x[i];
+      }
+      i++;
+    }
+    if (hi > -Infinity) {
+      outX.push(hiX);
+      outMin.push(lo);
+      outMax.push(hi);
+    }
+  }
+  return { x: Float64Array.from(outX), min: Float64Array.from(outMin), max: Float64Array.from(outMax) };
+}
+
+/**
+ * Puts a second series (e.g. an earlier capture) on the x grid of the first, for one uPlot x array: each
+ * target point takes the highest source value between the midpoints to its neighbours, or the linearly
+ * interpolated value when no source sample falls there; null outside the source's range.
+ */
+export function resampleOnto(target: ArrayLike<number>, srcX: ArrayLike<number>, srcY: ArrayLike<number>): (number | null)[] {
+  const out: (number | null)[] = new Array(target.length).fill(null);
+  const n = srcX.length;
+  if (n === 0) return out;
+  let j = 0;
+  for (let i = 0; i < target.length; i++) {
+    const t = target[i];
+    if (t < srcX[0] || t > srcX[n - 1]) continue;
+    const lo = i > 0 ? (target[i - 1] + t) / 2 : t;
+    const hi = i < target.length - 1 ? (t + target[i + 1]) / 2 : t;
+    while (j < n && srcX[j] < lo) j++;
+    let best = -Infinity;
+    let k = j;
+    while (k < n && srcX[k] <= hi) {
+      if (srcY[k] > best) best = srcY[k];
+      k++;
+    }
+    if (best > -Infinity) {
+      out[i] = best;
+      continue;
+    }
+    // no source sample in this bucket: interpolate between the neighbours
+    const r = Math.min(Math.max(j, 1), n - 1);
+    const x0 = srcX[r - 1];
+    const x1 = srcX[r];
+    const w = x1 > x0 ? (t - x0) / (x1 - x0) : 0;
+    out[i] = srcY[r - 1] + w * (srcY[r] - srcY[r - 1]);
+  }
+  return out;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Peak stepping
+
+/**
+ * Indices of local maxima of y whose topographic prominence is at least `prominence`: the height above the
+ * higher of the two lowest points between the peak and the nearest higher sample on each side (searched at most
+ * `halfWidth` samples away; a side without a higher sample uses its lowest point in that reach). Plateaus count
+ * once (their first sample); maxima at the ends of the data do not count.
+ */
+export function findPeaks(y: ArrayLike<number>, opts: { prominence?: number; halfWidth?: number } = {}): number[] {
+  const prominence = opts.prominence ?? 3;
+  const reach = Math.max(1, opts.halfWidth ?? 200);
+  const n = y.length;
+  const peaks: number[] = [];
+  for (let i = 1; i < n; i++) {
+    const v = y[i];
+    if (!Number.isFinite(v)) continue;
+    if (y[i - 1] >= v) continue; // not the first sample of a rise
+    let j = i + 1;
+    while (j < n && y[j] === v) j++; // plateau
+    if (j >= n || y[j] > v) continue; // cut off at the end, or still rising
+    let leftMin = v;
+    for (let k = i - 1; k >= Math.max(0, i - reach); k--) {
+      if (y[k] > v) break;
+      if (y[k] < leftMin) leftMin = y[k];
+    }
+    let rightMin = v;
+    for (let k = j; k < Math.min(n, j + reach); k++) {
+      if (y[k] > v) break;
+      if (y[k] < rightMin) rightMin = y[k];
+    }
+    if (v - Math.max(leftMin, rightMin) >= prominence) peaks.push(i);
+  }
+  return peaks;
+}
+
+/**
+ * The next peak strictly right (direction +1) or left (−1) of fromHz, as an index into x; null when there is
+ * none in that direction. Peaks within `epsHz` of fromHz are skipped so repeated presses always move on.
+ */
+export function stepPeak(
+  x: ArrayLike<number>,
+  peaks: readonly number[],
+  fromHz: number,
+  direction: 1 | -1,
+  epsHz = 1e-9,
+): number | null {
+  if (direction > 0) {
+    for (const p of peaks) if (x[p] > fromHz + epsHz) return p;
+    return null;
+  }
+  for (let i = peaks.length - 1; i >= 0; i--) if (x[peaks[i]] < fromHz - epsHz) return peaks[i];
+  return null;
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Zoom and pan
+
+export interface Range {
+  min: number;
+  max: number;
+}
+
+/** Zoom by `factor` (< 1 zooms in) about `center`, kept inside `bounds` and no narrower than minSpan. */
+export function zoomRange(view: Range, factor: number, bounds: Range, center = (view.min + view.max) / 2, minSpan = 0): Range {
+  const boundSpan = bounds.max - bounds.min;
+  const span = Math.min(boundSpan, Math.max(minSpan, (view.max - view.min) * factor));
+  const frac = view.max > view.min ? (center - view.min) / (view.max - view.min) : 0.5;
+  const min = center - frac * span;
+  return clampRange({ min, max: min + span }, bounds);
+}
+
+/** Shift the view by `fraction` of its width (positive: to higher x), kept inside bounds. */
+export function panRange(view: Range, fraction: number, bounds: Range): Range {
+  const d = (view.max - view.min) * fraction;
+  return clampRange({ min: view.min + d, max: view.max + d }, bounds);
+}
+
+export function clampRange(view: Range, bounds: Range): Range {
+  const span = Math.min(view.max - view.min, bounds.max - bounds.min);
+  let min = view.min;
+  if (min < bounds.min) min = bounds.min;
+  if (min + span > bounds.max) min = bounds.max - span;
+  return { min, max: min + span };
+}
+
+/**
+ * The band around the supply line the viewer opens with: ±5·sf, so the broken-bar pair at f ± 2sf sits well
+ * inside; at least ±5 Hz, at most ±f/2.
+ */
+export function supplyWindow(supplyHz: number, slip: number | null): Range {
+  const sf = slip && slip > 0 ? slip * supplyHz : 0;
+  const half = Math.max(5, Math.min(supplyHz * 0.5, 5 * sf));
+  return { min: Math.max(0, supplyHz - half), max: supplyHz + half };
+}
