@@ -25,7 +25,7 @@ export interface ScenarioMotor {
   machineGroup: 1 | 2;
   support: "rigid" | "flexible";
   /** The motor's part in the demo story. */
-  story?: "rotor-fault" | "under-loaded" | "drive-fed" | "load-oscillation";
+  story?: "rotor-fault" | "under-loaded" | "drive-fed" | "load-oscillation" | "imbalance";
   /** Typical running load, % of rated. */
   typicalLoadPct: number;
   vibration?: boolean;
@@ -53,15 +53,15 @@ const IEC: Record<string, Base> = {
   "8p-37": { ratedKw: 37, ratedVoltage: 400, ratedCurrent: 76, ratedHz: 50, ratedRpm: 738, poles: 8, rotorBars: 58, statorSlots: 72, efficiencyClass: "IE3", efficiencyPct: 93.4, powerFactor: 0.77, connection: "delta", machineGroup: 2, support: "flexible" },
 };
 const NEMA: Record<string, Base> = {
-  "2p-40": { ratedKw: 30, ratedVoltage: 460, ratedCurrent: 45, ratedHz: 60, ratedRpm: 3545, poles: 2, rotorBars: 28, statorSlots: 36, designLetter: "B", efficiencyClass: "NEMA Premium", efficiencyPct: 93.0, powerFactor: 0.89, connection: "delta", machineGroup: 2, support: "rigid" },
-  "4p-100": { ratedKw: 75, ratedVoltage: 460, ratedCurrent: 114, ratedHz: 60, ratedRpm: 1780, poles: 4, rotorBars: 40, statorSlots: 48, designLetter: "B", efficiencyClass: "NEMA Premium", efficiencyPct: 95.4, powerFactor: 0.86, connection: "delta", machineGroup: 2, support: "rigid" },
-  "4p-150": { ratedKw: 110, ratedVoltage: 460, ratedCurrent: 168, ratedHz: 60, ratedRpm: 1785, poles: 4, rotorBars: 46, statorSlots: 60, designLetter: "C", efficiencyClass: "NEMA Premium", efficiencyPct: 95.8, powerFactor: 0.86, connection: "delta", machineGroup: 2, support: "rigid" },
-  "4p-400": { ratedKw: 300, ratedVoltage: 460, ratedCurrent: 450, ratedHz: 60, ratedRpm: 1788, poles: 4, rotorBars: 52, statorSlots: 72, designLetter: "B", efficiencyClass: "NEMA Premium", efficiencyPct: 96.2, powerFactor: 0.88, connection: "delta", machineGroup: 2, support: "rigid" },
-  "6p-60": { ratedKw: 45, ratedVoltage: 460, ratedCurrent: 72, ratedHz: 60, ratedRpm: 1185, poles: 6, rotorBars: 58, statorSlots: 72, designLetter: "B", efficiencyClass: "NEMA Premium", efficiencyPct: 94.5, powerFactor: 0.82, connection: "delta", machineGroup: 2, support: "flexible" },
-  "8p-50": { ratedKw: 37, ratedVoltage: 460, ratedCurrent: 64, ratedHz: 60, ratedRpm: 885, poles: 8, rotorBars: 70, statorSlots: 72, designLetter: "C", efficiencyClass: "NEMA Premium", efficiencyPct: 93.6, powerFactor: 0.76, connection: "delta", machineGroup: 2, support: "flexible" },
+  "2p-40": { ratedKw: 30, ratedVoltage: 460, ratedCurrent: 45, ratedHz: 60, ratedRpm: 3545, poles: 2, rotorBars: 28, statorSlots: 36, designLetter: "B", efficiencyClass: "IE3", efficiencyPct: 93.0, powerFactor: 0.89, connection: "delta", machineGroup: 2, support: "rigid" },
+  "4p-100": { ratedKw: 75, ratedVoltage: 460, ratedCurrent: 114, ratedHz: 60, ratedRpm: 1780, poles: 4, rotorBars: 40, statorSlots: 48, designLetter: "B", efficiencyClass: "IE3", efficiencyPct: 95.4, powerFactor: 0.86, connection: "delta", machineGroup: 2, support: "rigid" },
+  "4p-150": { ratedKw: 110, ratedVoltage: 460, ratedCurrent: 168, ratedHz: 60, ratedRpm: 1785, poles: 4, rotorBars: 46, statorSlots: 60, designLetter: "C", efficiencyClass: "IE3", efficiencyPct: 95.8, powerFactor: 0.86, connection: "delta", machineGroup: 2, support: "rigid" },
+  "4p-400": { ratedKw: 300, ratedVoltage: 460, ratedCurrent: 450, ratedHz: 60, ratedRpm: 1788, poles: 4, rotorBars: 52, statorSlots: 72, designLetter: "B", efficiencyClass: "IE3", efficiencyPct: 96.2, powerFactor: 0.88, connection: "delta", machineGroup: 2, support: "rigid" },
+  "6p-60": { ratedKw: 45, ratedVoltage: 460, ratedCurrent: 72, ratedHz: 60, ratedRpm: 1185, poles: 6, rotorBars: 58, statorSlots: 72, designLetter: "B", efficiencyClass: "IE3", efficiencyPct: 94.5, powerFactor: 0.82, connection: "delta", machineGroup: 2, support: "flexible" },
+  "8p-50": { ratedKw: 37, ratedVoltage: 460, ratedCurrent: 64, ratedHz: 60, ratedRpm: 885, poles: 8, rotorBars: 70, statorSlots: 72, designLetter: "C", efficiencyClass: "IE3", efficiencyPct: 93.6, powerFactor: 0.76, connection: "delta", machineGroup: 2, support: "flexible" },
 };
 
-const m = (base: Base, rest: Omit<ScenarioMotor, keyof Base>): ScenarioMotor => ({ ...base, ...rest });
+const m = (base: Base, rest: Omit<ScenarioMotor, keyof Base> & Partial<Pick<ScenarioMotor, "driveFed" | "story" | "vibration">>): ScenarioMotor => ({ ...base, ...rest });
 
 export const SCENARIO: ScenarioSite[] = [
   {
@@ -101,7 +101,7 @@ export const SCENARIO: ScenarioSite[] = [
       m(NEMA["4p-150"], { tag: "GBT-CNV-C07", name: "Gallery conveyor 7", area: "Conveyor Gallery", drivenEquipment: "conveyor", criticality: "high", typicalLoadPct: 87, story: "rotor-fault", vibration: true }),
       m(NEMA["4p-100"], { tag: "GBT-CNV-C08", name: "Transfer conveyor 8", area: "Conveyor Gallery", drivenEquipment: "conveyor", criticality: "medium", typicalLoadPct: 77 }),
       m(NEMA["6p-60"], { tag: "GBT-CNV-K01", name: "Lump crusher", area: "Conveyor Gallery", drivenEquipment: "crusher", criticality: "medium", typicalLoadPct: 72 }),
-      m(NEMA["4p-100"], { tag: "GBT-DST-F01", name: "Baghouse fan 1", area: "Dust Control", drivenEquipment: "fan", criticality: "medium", typicalLoadPct: 79, vibration: true }),
+      m(NEMA["4p-100"], { tag: "GBT-DST-F01", name: "Baghouse fan 1", area: "Dust Control", drivenEquipment: "fan", criticality: "medium", typicalLoadPct: 79, story: "imbalance", vibration: true }),
       m(NEMA["4p-100"], { tag: "GBT-DST-F02", name: "Baghouse fan 2", area: "Dust Control", drivenEquipment: "fan", criticality: "medium", typicalLoadPct: 80 }),
       m(NEMA["2p-40"], { tag: "GBT-DST-P01", name: "Suppression water pump", area: "Dust Control", drivenEquipment: "pump", criticality: "low", typicalLoadPct: 66 }),
       m(NEMA["4p-150"], { tag: "GBT-CMP-K01", name: "Plant-air compressor 1", area: "Compressor House", drivenEquipment: "compressor", criticality: "high", typicalLoadPct: 83 }),
