@@ -1,10 +1,14 @@
+import crypto from "node:crypto";
 import PgBoss from "pg-boss";
+import type { Knex } from "knex";
 import type { AppContext } from "./context.ts";
 
 // The analysis job queue: pg-boss in the application's own PostgreSQL database (schema "pgboss"), so a
 // capture row and its job live in one database and no extra service is needed.
 
 export const ANALYSIS_QUEUE = "capture-analysis";
+/** pg-boss's schema in the application database (the stuck-capture sweep reads its job and archive tables). */
+export const PGBOSS_SCHEMA = "pgboss";
 
 export interface AnalysisJobData {
   captureId: number;
@@ -35,6 +39,11 @@ export interface CaptureQueue {
   boss: PgBoss;
   policy: JobPolicy;
   sendAnalysis(data: AnalysisJobData): Promise<string | null>;
+  /**
+   * Queue many analysis jobs with one INSERT (pg-boss `insert`). Given a knex transaction, the jobs are written in
+   * it: they exist exactly when the transaction that reserved their versions commits.
+   */
+  sendAnalyses(data: AnalysisJobData[], opts?: { trx?: Knex.Transaction }): Promise<void>;
   stop(): Promise<void>;
 }
 
@@ -51,7 +60,7 @@ export async function createCaptureQueue(databaseUrl: string, opts: QueueOptions
   const policy = { ...jobPolicy(), ...opts.policy };
   const boss = new PgBoss({
     connectionString: databaseUrl,
-    schema: "pgboss",
+    schema: PGBOSS_SCHEMA,
     max: opts.max ?? 4,
     supervise: opts.supervise ?? false,
     schedule: false,
@@ -67,7 +76,29 @@ export async function createCaptureQueue(databaseUrl: string, opts: QueueOptions
     policy,
     // The job carries its own policy, so whichever process created the queue, the sender's settings apply.
     sendAnalysis: (data) => boss.send(ANALYSIS_QUEUE, data as unknown as object, { ...policy }),
+    async sendAnalyses(data, o = {}) {
+      if (!data.length) return;
+      // One INSERT gives every job the same created_on, and pg-boss then takes them in id order: ids that start
+      // with their index keep the caller's order (the rest of a random UUID keeps them unique).
+      const jobs = data.map((d, i) => ({ id: i.toString(16).padStart(8, "0") + crypto.randomUUID().slice(8), name: ANALYSIS_QUEUE, data: d as unknown as object, ...policy }));
+      await boss.insert(jobs, o.trx ? { db: knexExecutor(o.trx) } : {});
+    },
     stop: () => boss.stop({ graceful: false, wait: true, timeout: 2000 }),
+  };
+}
+
+/**
+ * pg-boss's `db` option ({ executeSql(text, values) }) over a knex transaction, so jobs are written in the caller's
+ * transaction. pg-boss writes $1…$n placeholders; knex binds "?" in order, so each $n becomes "?" with its value.
+ * (pg-boss's SQL has no literal "?" or "$n" of its own.)
+ */
+export function knexExecutor(trx: Knex | Knex.Transaction) {
+  return {
+    async executeSql(text: string, values: unknown[] = []) {
+      const bindings: unknown[] = [];
+      const sql = text.replace(/\$(\d+)/g, (_m, n: string) => (bindings.push(values[Number(n) - 1] ?? null), "?"));
+      return (await trx.raw(sql, bindings as Knex.RawBinding[])) as { rows: Record<string, unknown>[] };
+    },
   };
 }
 

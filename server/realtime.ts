@@ -18,6 +18,7 @@ import { pino } from "pino";
 import { Server, type Socket } from "socket.io";
 import { createAdapter } from "@socket.io/postgres-adapter";
 import type { AppContext } from "./context.ts";
+import jwt from "jsonwebtoken";
 import { tokenFromCookieHeader, userFromToken } from "./auth.ts";
 import type { SessionUser } from "./http.ts";
 import { ROLES, can, type Permission } from "./permissions.ts";
@@ -41,6 +42,26 @@ export function audienceOf(event: string): Permission | null {
 
 /** Server-to-server message (through the adapter): drop the sockets of a revoked gateway. */
 const GATEWAY_REVOKED = "gateway:revoked";
+/** Server-to-server message: drop a user's browser sockets (deactivated, role changed). */
+const USER_ENDED = "user:ended";
+
+/** Why a browser socket is closed by the server; sent as `session:ended { reason, message }` just before. */
+export type SessionEndReason = "expired" | "deactivated" | "role-changed";
+const SESSION_END_MESSAGE: Record<SessionEndReason, string> = {
+  expired: "Your session has expired. Sign in again.",
+  deactivated: "Your account was deactivated by an admin.",
+  "role-changed": "Your role was changed by an admin; reconnect to receive the updates of your new role.",
+};
+
+/** How often each server re-reads the users behind its browser sockets (catches changes made outside the API). */
+const REVALIDATE_MS = 60_000;
+
+interface BrowserSocketData {
+  user: SessionUser;
+  /** The session JWT's expiry, ms since the epoch (Infinity without one). */
+  expiresAt: number;
+  ended?: boolean;
+}
 
 export const roleRoom = (role: string) => `role:${role}`;
 export const userRoom = (id: number) => `user:${id}`;
@@ -52,6 +73,10 @@ export interface Realtime {
   publish(event: string, payload: unknown): void;
   /** Tell a gateway its token was revoked and drop its connections, on whichever server process they are. */
   disconnectGateway(gatewayId: number, message: string): void;
+  /** Tell a user's browsers why and drop them (deactivated, role changed), on whichever server process they are. */
+  disconnectUser(userId: number, reason: SessionEndReason): void;
+  /** Re-read the users behind this process's browser sockets; drop those deactivated or whose role changed. */
+  revalidateSessions(): Promise<number>;
   close(): Promise<void>;
 }
 
@@ -81,17 +106,66 @@ export async function attachRealtime(ctx: AppContext, httpServer: http.Server, o
 
   io.use(async (socket, next) => {
     try {
-      const user = await userFromToken(ctx.db, ctx.config, tokenFromCookieHeader(socket.handshake.headers.cookie));
+      const token = tokenFromCookieHeader(socket.handshake.headers.cookie);
+      const user = await userFromToken(ctx.db, ctx.config, token);
       if (!user) return next(new Error("unauthorized"));
-      (socket.data as { user?: SessionUser }).user = user;
+      const exp = (jwt.decode(token!) as jwt.JwtPayload | null)?.exp;
+      Object.assign(socket.data as BrowserSocketData, { user, expiresAt: typeof exp === "number" ? exp * 1000 : Infinity });
       next();
     } catch (err) {
       next(err as Error);
     }
   });
+
+  // Close a browser socket, telling it why first. The reason is emitted before the disconnect on the same
+  // connection, so it arrives; anything emitted after is dropped (the connection is closing).
+  const endSession = (socket: Socket, reason: SessionEndReason) => {
+    const data = socket.data as BrowserSocketData;
+    if (data.ended) return;
+    data.ended = true;
+    socket.emit("session:ended", { reason, message: SESSION_END_MESSAGE[reason] });
+    socket.disconnect(true);
+  };
   io.on("connection", (socket: Socket) => {
-    const user = (socket.data as { user: SessionUser }).user;
-    void socket.join([roleRoom(user.role), userRoom(user.id)]);
+    const data = socket.data as BrowserSocketData;
+    void socket.join([roleRoom(data.user.role), userRoom(data.user.id)]);
+    // Checked on every delivery (a number comparison, no database): an expired session receives nothing more. The
+    // outgoing listener runs before the packet is written; closing the connection here drops the packet.
+    socket.onAnyOutgoing((event) => {
+      if (!data.ended && event !== "session:ended" && Date.now() >= data.expiresAt) endSession(socket, "expired");
+    });
+    // An idle socket is closed at expiry too.
+    if (Number.isFinite(data.expiresAt)) {
+      const timer = setTimeout(() => endSession(socket, "expired"), Math.min(Math.max(0, data.expiresAt - Date.now()), 2 ** 31 - 1));
+      socket.once("disconnect", () => clearTimeout(timer));
+    }
+  });
+  // Deactivation and role changes arrive through disconnectUser (the users route); this also catches changes made
+  // outside the API, or a broadcast this process missed: one query per interval for all of its browser sockets.
+  const revalidateSessions = async (): Promise<number> => {
+    const sockets = [...io.of("/").sockets.values()].filter((s) => !(s.data as BrowserSocketData).ended);
+    if (!sockets.length) return 0;
+    const ids = [...new Set(sockets.map((s) => (s.data as BrowserSocketData).user.id))];
+    const rows: { id: number; role: string; active: boolean }[] = await ctx.db("users").whereIn("id", ids).select("id", "role", "active");
+    const byId = new Map(rows.map((r) => [r.id, r]));
+    let dropped = 0;
+    for (const s of sockets) {
+      const { user } = s.data as BrowserSocketData;
+      const now = byId.get(user.id);
+      if (!now || !now.active) endSession(s, "deactivated");
+      else if (now.role !== user.role) endSession(s, "role-changed");
+      else continue;
+      dropped++;
+    }
+    return dropped;
+  };
+  const revalidator = setInterval(() => void revalidateSessions().catch((err) => log.warn({ err }, "session revalidation failed")), REVALIDATE_MS);
+  revalidator.unref();
+  const dropUser = (userId: number, reason: SessionEndReason) => {
+    for (const s of io.of("/").sockets.values()) if ((s.data as BrowserSocketData).user?.id === userId) endSession(s, reason);
+  };
+  io.of("/").on(USER_ENDED, (msg: { userId?: unknown; reason?: unknown }) => {
+    if (typeof msg?.userId === "number" && typeof msg.reason === "string" && msg.reason in SESSION_END_MESSAGE) dropUser(msg.userId, msg.reason as SessionEndReason);
   });
 
   const resolveStore = async (): Promise<StoreCaptureFn> => {
@@ -131,7 +205,14 @@ export async function attachRealtime(ctx: AppContext, httpServer: http.Server, o
       dropGateway(gatewayId, message);
       gateways.serverSideEmit(GATEWAY_REVOKED, { gatewayId, message });
     },
+    disconnectUser(userId, reason) {
+      // Like gateways: each server drops its own sockets, so the reason is sent before the disconnect.
+      dropUser(userId, reason);
+      io.of("/").serverSideEmit(USER_ENDED, { userId, reason });
+    },
+    revalidateSessions,
     async close() {
+      clearInterval(revalidator);
       gatewayNs.close();
       await listener.close();
       // Closes every namespace's adapter (releasing its LISTEN connection) and the engine; it also closes the
@@ -189,7 +270,8 @@ async function listenForEvents(pool: pg.Pool, onEvent: (event: string, payload: 
 }
 
 /**
- * Wire live updates into a server: sets ctx.services.publish and ctx.services.disconnectGateway, and registers the
+ * Wire live updates into a server: sets ctx.services.publish, ctx.services.disconnectGateway and
+ * ctx.services.disconnectUser, and registers the
  * onHttpServer hook (attach socket.io) and the onClose closer that startServer runs. Until a socket server is
  * attached (e.g. a process that only serves HTTP in tests), publish falls back to NOTIFY so other servers' browsers
  * still hear the event.
@@ -201,6 +283,7 @@ export function installRealtime(ctx: AppContext, opts: RealtimeOptions = {}): vo
     else void notifyEvent(ctx.db, event, payload).catch(() => {});
   };
   ctx.services.disconnectGateway = (gatewayId: number, message: string) => rt?.disconnectGateway(gatewayId, message);
+  ctx.services.disconnectUser = (userId: number, reason: SessionEndReason) => rt?.disconnectUser(userId, reason);
   ctx.services.onHttpServer ??= [];
   (ctx.services.onHttpServer as ((s: http.Server) => Promise<void> | void)[]).push(async (server) => {
     rt = await attachRealtime(ctx, server, opts);

@@ -3,7 +3,8 @@
 import { parseCapture, CaptureParseError } from "../src/engine/parse/index.ts";
 import { analyzeCapture, ENGINE_VERSION } from "../src/engine/analyze.ts";
 import type { AnalysisResult, Nameplate } from "../src/engine/types.ts";
-import { summariseCapture, toPlainJson, type AnalysisTaskOutput } from "../server/captures/engine-io.ts";
+import { summariseCapture, toPlainJson, type AnalysisTaskOutput, type EncodedSpectrum } from "../server/captures/engine-io.ts";
+import { computeFullSpectrum, encodeSpectrum } from "../server/captures/spectrum-store.ts";
 
 export interface AnalysisTaskInput {
   bytes: Uint8Array;
@@ -22,5 +23,15 @@ export default function analysisTask(input: AnalysisTaskInput): AnalysisTaskOutp
     throw err;
   }
   const result = analyzeCapture(capture, input.nameplate, {});
-  return { engineVersion: ENGINE_VERSION, meta: summariseCapture(capture), result: toPlainJson(result) as AnalysisResult };
+  // The viewer's full-range spectrum of each channel, stored next to the capture by the job (server/captures/analysis-job.ts).
+  // A channel whose spectrum cannot be computed is left out: the viewer computes it on demand.
+  const spectra: EncodedSpectrum[] = [];
+  for (const ch of capture.channels) {
+    try {
+      spectra.push({ channel: ch.name, bytes: encodeSpectrum(computeFullSpectrum(ch, capture.sampleRate), ch.kind) });
+    } catch {
+      /* left to the viewer */
+    }
+  }
+  return { engineVersion: ENGINE_VERSION, meta: summariseCapture(capture), result: toPlainJson(result) as AnalysisResult, spectra };
 }

@@ -9,6 +9,7 @@ import { createKnex, migrateLatest } from "../server/db.ts";
 import { createBlobStore } from "../server/blob/index.ts";
 import { ANALYSIS_QUEUE, createCaptureQueue, type AnalysisJobData } from "../server/queue.ts";
 import { runAnalysisJob } from "../server/captures/analysis-job.ts";
+import { sweepStuckCaptures } from "../server/captures/stuck-sweep.ts";
 import type { AnalysisTaskInput } from "./analysis-task.ts";
 import type { AnalysisTaskOutput } from "../server/captures/engine-io.ts";
 
@@ -75,8 +76,22 @@ async function main() {
     }
   });
 
+  // Captures no job will finish (retries used up by timeouts, job cancelled or lost) are marked failed: at start,
+  // then every BARHOUND_STUCK_SWEEP_S (default 60). Every worker may sweep; the conditional update makes that harmless.
+  const sweep = async () => {
+    try {
+      const swept = await sweepStuckCaptures(db, { expireInSeconds: queue.policy.expireInSeconds });
+      for (const s of swept) console.error(`[worker] capture ${s.id}: ${s.error}`);
+    } catch (err) {
+      console.error("[worker] stuck-capture sweep failed:", (err as Error).message);
+    }
+  };
+  await sweep();
+  const sweeper = setInterval(sweep, (Number(process.env.BARHOUND_STUCK_SWEEP_S) || 60) * 1000);
+
   const stop = async () => {
     stopping = true;
+    clearInterval(sweeper);
     await Promise.race([Promise.all(loops), sleep(10_000)]);
     await queue.stop().catch(() => {});
     await pool.destroy().catch(() => {});

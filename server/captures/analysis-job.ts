@@ -5,6 +5,7 @@ import type { AnalysisTaskOutput } from "./engine-io.ts";
 import { nameplateOf } from "./engine-io.ts";
 import { writeAnalysisResult } from "./result.ts";
 import { notifyQuietly } from "./publish.ts";
+import { spectrumBlobKey } from "./spectrum-store.ts";
 import type { AnalysisTaskInput } from "../../workers/analysis-task.ts";
 
 export interface JobDeps {
@@ -64,6 +65,10 @@ export async function runAnalysisJob(deps: JobDeps, job: AnalysisJobData, attemp
     const out = await deps.runTask({ bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), fileName: cap.file_name ?? "capture", sampleRate: cap.sample_rate ?? undefined, nameplate });
     // A parse error is the file's fault: retrying will not help.
     if (out.parseError) throw new PermanentJobError(out.parseError.message);
+    // Before the result, so a capture shown analysed already has its stored spectra. Not fatal: the viewer recomputes.
+    for (const s of out.spectra ?? []) {
+      await deps.blob.put(spectrumBlobKey(cap.blob_key, s.channel), s.bytes).catch((err) => console.error(`[worker] capture ${cap.id}: could not store the ${s.channel} spectrum:`, (err as Error).message));
+    }
     const w = await writeAnalysisResult(db, {
       captureId: cap.id,
       version: job.version,

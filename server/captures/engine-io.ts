@@ -2,8 +2,14 @@
 import type { AnalysisResult, Capture, Nameplate } from "../../src/engine/types.ts";
 import type { CaptureMeta } from "./ingest.ts";
 
+/** One channel's full-range display spectrum, encoded for the blob store (server/captures/spectrum-store.ts). */
+export interface EncodedSpectrum {
+  channel: string;
+  bytes: Uint8Array;
+}
+
 export type AnalysisTaskOutput =
-  | { engineVersion: string; meta: Required<CaptureMeta>; result: AnalysisResult; parseError?: undefined }
+  | { engineVersion: string; meta: Required<CaptureMeta>; result: AnalysisResult; spectra?: EncodedSpectrum[]; parseError?: undefined }
   | { parseError: { code: string; message: string } };
 
 /** Sample rate, duration and channel list of a parsed capture, for the captures row. */

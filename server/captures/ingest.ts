@@ -124,19 +124,43 @@ export async function storeCapturesAndQueue(ctx: AppContext, inputs: StoreCaptur
  * change). The version is reserved on the row first, so the job writes exactly that version once.
  */
 export async function requeueAnalysis(ctx: AppContext, captureId: number, opts: { newVersion: boolean }): Promise<{ id: number; status: string; version: number } | null> {
+  const [one] = await requeueAnalyses(ctx, { captureIds: [captureId] }, opts);
+  return one ?? null;
+}
+
+/**
+ * Queue the next analysis of many captures at once (every stored capture of a motor, or a list of ids): one UPDATE
+ * reserves every version and one INSERT queues every job, both in one transaction, so either all are queued or
+ * none is. A failed capture never written keeps its version (unless `newVersion`); an analysed one gets the next.
+ */
+export async function requeueAnalyses(
+  ctx: AppContext,
+  which: { assetId: number } | { captureIds: number[] },
+  opts: { newVersion: boolean },
+): Promise<{ id: number; status: string; version: number }[]> {
   const queue = queueOf(ctx);
-  const row = await ctx.db.transaction(async (trx) => {
-    const cap = await trx("captures").where({ id: captureId }).forUpdate().first();
-    if (!cap) return null;
-    const done = await trx("analyses").where({ capture_id: captureId }).max<{ max: number | null }>("version as max").first();
-    const latest = done?.max ?? 0;
-    // A failed capture never written keeps its version; an analysed one gets the next.
-    const version = opts.newVersion || latest >= cap.analysis_version ? Math.max(latest, cap.analysis_version) + 1 : cap.analysis_version;
-    await trx("captures").where({ id: captureId }).update({ analysis_version: version, status: "queued", error: null, queued_at: trx.fn.now(), updated_at: trx.fn.now() });
-    return { id: captureId, assetId: cap.asset_id as number, version };
+  if ("captureIds" in which && !which.captureIds.length) return [];
+  const rows = await ctx.db.transaction(async (trx) => {
+    // A motor's re-analysis takes its stored captures; named captures are taken as they are (as before).
+    const target = trx("captures").select("id");
+    if ("assetId" in which) target.where({ asset_id: which.assetId }).whereNotNull("blob_key");
+    else target.whereIn("id", which.captureIds);
+    // Rows locked in id order, so two re-analyses of one motor at once cannot deadlock; the second waits.
+    const { rows } = await trx.raw<{ rows: { id: number; asset_id: number; analysis_version: number; taken_at: Date }[] }>(
+      `with target as (select id from captures where id in ? order by id for update),
+            latest as (select t.id, coalesce((select max(a.version) from analyses a where a.capture_id = t.id), 0) as v from target t)
+       update captures c set
+         analysis_version = case when ?::boolean or l.v >= c.analysis_version then greatest(l.v, c.analysis_version) + 1 else c.analysis_version end,
+         status = 'queued', error = null, queued_at = now(), updated_at = now()
+       from latest l where c.id = l.id
+       returning c.id, c.asset_id, c.analysis_version, c.taken_at`,
+      [target, opts.newVersion],
+    );
+    // Oldest capture first, as a person would re-analyse them.
+    rows.sort((a, b) => +a.taken_at - +b.taken_at || a.id - b.id);
+    await queue.sendAnalyses(rows.map((r) => ({ captureId: r.id, version: r.analysis_version })), { trx });
+    return rows;
   });
-  if (!row) return null;
-  await queue.sendAnalysis({ captureId, version: row.version });
-  await publishEvent(ctx, "capture:status", { id: captureId, assetId: row.assetId, status: "queued" });
-  return { id: captureId, status: "queued", version: row.version };
+  for (const r of rows) await publishEvent(ctx, "capture:status", { id: r.id, assetId: r.asset_id, status: "queued" });
+  return rows.map((r) => ({ id: r.id, status: "queued", version: r.analysis_version }));
 }

@@ -1,19 +1,15 @@
-// Spectra and waveforms of stored captures for the viewer. The parsed capture and each channel's full spectrum
-// are computed once and kept in an in-memory LRU, so zooming and panning only re-decimate (milliseconds).
+// Spectra and waveforms of stored captures for the viewer. Each channel's full spectrum is read from the blob the
+// worker stored at analysis time (server/captures/spectrum-store.ts), or else computed from the parsed capture; both
+// are kept in an in-memory LRU, so zooming and panning only re-decimate (milliseconds).
 import type { Knex } from "knex";
 import { parseCapture } from "../../src/engine/parse/index.ts";
-import { spectrumForDisplay } from "../../src/engine/spectrum.ts";
-import type { Capture, Channel } from "../../src/engine/types.ts";
+import type { Capture } from "../../src/engine/types.ts";
 import type { BlobStore } from "../blob/store.ts";
 import { badRequest, HttpError, notFound } from "../errors.ts";
-import { decimateMinMax, LruCache, type UniformSeries } from "../spectra.ts";
+import { decimateMinMax, LruCache } from "../spectra.ts";
+import { computeFullSpectrum, decodeSpectrum, spectrumBlobKey, type FullSpectrum } from "./spectrum-store.ts";
 
-export interface FullSpectrum {
-  channel: string;
-  unit: string;
-  series: UniformSeries;
-  resolutionHz: number;
-}
+export type { FullSpectrum };
 
 const MB = 1024 * 1024;
 const captures = new LruCache<Capture>(Number(process.env.BARHOUND_CAPTURE_CACHE_MB || 256) * MB);
@@ -26,7 +22,7 @@ export function clearSignalCaches() {
 }
 
 async function captureRow(db: Knex, id: number) {
-  const row = await db("captures").where({ id }).first("id", "blob_key", "file_name", "sample_rate");
+  const row = await db("captures").where({ id }).first("id", "blob_key", "file_name", "sample_rate", "channels");
   if (!row) throw notFound("No such capture.");
   if (!row.blob_key) throw new HttpError(409, "This capture has no stored recording yet.", undefined, "no-recording");
   return row;
@@ -42,7 +38,7 @@ export async function loadParsed(db: Knex, blob: BlobStore, id: number): Promise
   });
 }
 
-function pickChannel(cap: Capture, name: string | undefined, kind: string | undefined): Channel {
+function pickChannel<C extends { name: string; kind: string }>(cap: { channels: C[] }, name: string | undefined, kind: string | undefined): C {
   if (name) {
     const ch = cap.channels.find((c) => c.name === name) ?? cap.channels.find((c) => c.name.toLowerCase() === name.toLowerCase());
     if (!ch) throw badRequest("No such channel", { channel: `This capture has: ${cap.channels.map((c) => c.name).join(", ")}` });
@@ -53,23 +49,41 @@ function pickChannel(cap: Capture, name: string | undefined, kind: string | unde
   return ch;
 }
 
-/** The whole-band spectrum of one channel at full resolution (cached). */
+/** The spectrum the worker stored for a channel, or null (none yet, unreadable, or the store failed: recompute). */
+async function storedSpectrum(blob: BlobStore, captureKey: string, channel: string): Promise<FullSpectrum | null> {
+  let bytes: Buffer;
+  try {
+    bytes = await blob.get(spectrumBlobKey(captureKey, channel));
+  } catch (err) {
+    const e = err as { code?: string; name?: string };
+    if (e.code !== "ENOENT" && e.name !== "NoSuchKey" && e.name !== "NotFound") console.error(`[spectra] stored spectrum of ${captureKey} ${channel}:`, (err as Error).message);
+    return null;
+  }
+  const s = decodeSpectrum(bytes);
+  return s && s.channel === channel ? s : null;
+}
+
+/**
+ * The whole-band spectrum of one channel at full resolution (cached). The channel is picked from the capture row's
+ * channel list, so a stored spectrum answers without reading the recording; without one, the recording is parsed
+ * and transformed.
+ */
 export async function fullSpectrum(db: Knex, blob: BlobStore, id: number, channelName?: string, kind?: string): Promise<FullSpectrum> {
-  const cap = await loadParsed(db, blob, id);
-  const ch = pickChannel(cap, channelName, kind);
-  return spectra.getOrCompute(`s${id}:${ch.name}`, async () => {
-    const vibration = ch.kind === "vibration";
-    // Current: dB re the supply line (the engine's default reference). Vibration: velocity in mm/s r.m.s. per line.
-    const d = spectrumForDisplay(ch.data, cap.sampleRate, {
-      maxPoints: Number.MAX_SAFE_INTEGER,
-      ...(vibration ? { quantity: "velocity-mm-s" as const, unit: ch.unit } : {}),
-    });
-    const n = d.hz.length;
-    const values = Float32Array.from(vibration ? d.level : d.db);
-    const dx = n > 1 ? d.hz[1] - d.hz[0] : cap.sampleRate / 2;
-    const value: FullSpectrum = { channel: ch.name, unit: d.unit, series: { x0: d.hz[0] ?? 0, dx, values }, resolutionHz: d.resolutionHz };
-    return { value, size: values.byteLength + 64 };
-  });
+  const row = await captureRow(db, id);
+  const listed = Array.isArray(row.channels) ? (row.channels as { name: string; kind: string }[]).filter((c) => typeof c?.name === "string") : [];
+  const name = listed.length ? pickChannel({ channels: listed }, channelName, kind).name : undefined;
+  const compute = async () => {
+    const cap = await loadParsed(db, blob, id);
+    return computeFullSpectrum(pickChannel(cap, name, undefined), cap.sampleRate);
+  };
+  const sized = (value: FullSpectrum) => ({ value, size: value.series.values.byteLength + 64 });
+  if (!name) {
+    // No channel list on the row (an old capture): parse to find the channel, then cache under its name.
+    const cap = await loadParsed(db, blob, id);
+    const ch = pickChannel(cap, channelName, kind);
+    return spectra.getOrCompute(`s${id}:${ch.name}`, async () => sized(computeFullSpectrum(ch, cap.sampleRate)));
+  }
+  return spectra.getOrCompute(`s${id}:${name}`, async () => sized((await storedSpectrum(blob, row.blob_key, name)) ?? (await compute())));
 }
 
 export async function spectrumView(

@@ -21,7 +21,7 @@ import {
   toRow,
 } from "../captures/asset-service.ts";
 import { importAssets } from "../captures/asset-import.ts";
-import { requeueAnalysis } from "../captures/ingest.ts";
+import { requeueAnalyses } from "../captures/ingest.ts";
 import { motorModelOf } from "../captures/motor-model.ts";
 
 const pointSchema = z.object({
@@ -65,11 +65,8 @@ export function assetRoutes(ctx: AppContext) {
   const checkArea = async (areaId: number | undefined) => {
     if (areaId !== undefined && !(await db("areas").where({ id: areaId }).first())) throw badRequest("Invalid motor", { areaId: "No such area" });
   };
-  const reanalyseAll = async (assetId: number) => {
-    const caps = await db("captures").where({ asset_id: assetId }).whereNotNull("blob_key").orderBy("taken_at").select("id");
-    for (const c of caps) await requeueAnalysis(ctx, c.id, { newVersion: true });
-    return caps.length;
-  };
+  // Every stored capture of the motor: versions reserved in one UPDATE, jobs queued in one INSERT (one transaction).
+  const reanalyseAll = async (assetId: number) => (await requeueAnalyses(ctx, { assetId }, { newVersion: true })).length;
 
   r.get("/assets", "fleet.read", async (req, res) => {
     const q = listQuery(req.query, {

@@ -71,6 +71,11 @@ export function userRoutes(ctx: AppContext) {
       await audit(db, { actor: req.user, action: "user.role-changed", subjectType: "user", subjectId: id, details: { from: before.role, to: body.role }, ip: req.ip });
     if (body.active !== undefined && body.active !== before.active)
       await audit(db, { actor: req.user, action: body.active ? "user.reactivated" : "user.deactivated", subjectType: "user", subjectId: id, ip: req.ip });
+    // Their open browser sockets are closed now (on every server process): a deactivated user receives nothing
+    // more, and after a role change the browser reconnects into the rooms of the new role.
+    const disconnectUser = ctx.services.disconnectUser as ((id: number, reason: "deactivated" | "role-changed") => void) | undefined;
+    if (body.active === false && before.active) disconnectUser?.(id, "deactivated");
+    else if (body.role && body.role !== before.role) disconnectUser?.(id, "role-changed");
     res.json(publicUser(after));
   });
 

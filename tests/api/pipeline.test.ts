@@ -7,6 +7,9 @@ import { storeCaptureAndQueue } from "../../server/captures/ingest.ts";
 import { runAnalysisJob } from "../../server/captures/analysis-job.ts";
 import { blobStoreOf } from "../../server/blob/index.ts";
 import analysisTask from "../../workers/analysis-task.ts";
+import { clearSignalCaches } from "../../server/captures/signal-views.ts";
+import { computeFullSpectrum, spectrumBlobKey } from "../../server/captures/spectrum-store.ts";
+import { parseCapture } from "../../src/engine/parse/index.ts";
 
 // End to end with a real worker process: upload → queued → analysing → analysed → trend point and findings;
 // failures, requeue, re-analysis after a nameplate change, and a worker killed in the middle of a job.
@@ -152,6 +155,42 @@ describe("capture pipeline", () => {
     expect(w).toMatchObject({ unit: "A", decimated: true });
     expect(w.t).toHaveLength(200);
     expect((await agent.get(`/api/captures/${firstId}/spectrum?channel=nope`)).status).toBe(400);
+  });
+
+  it("the worker stores each channel's full spectrum; the spectrum route answers from it without the recording", async () => {
+    const id = await upload((await makeMotor(env.db)).asset.id, captureFile({ seed: 15, phases: 3, vibration: { unit: "m/s2", axis: "H" } }), "2026-11-11T08:00:00Z", "two-kinds.csv");
+    await waitStatus(id, "analysed");
+    const row = await env.db("captures").where({ id }).first();
+    const blob = blobStoreOf(env.ctx);
+    const parsed = parseCapture(await blob.get(row.blob_key), { fileName: "two-kinds.csv" });
+    expect(parsed.channels.map((c) => c.kind)).toEqual(["current", "current", "current", "vibration"]);
+    const stored = await blob.list(`${row.blob_key}.spectrum/`);
+    expect(stored).toEqual(parsed.channels.map((c) => spectrumBlobKey(row.blob_key, c.name)).sort());
+    const agent = await signedIn(env.app, "technician");
+    // A window narrow enough to come back at full resolution: every bin, so the values can be compared one by one.
+    const view = async (channel: string) => (await agent.get(`/api/captures/${id}/spectrum?channel=${encodeURIComponent(channel)}&fmin=20&fmax=120&buckets=20000`)).body;
+    const expected = new Map(
+      parsed.channels.map((c) => {
+        const s = computeFullSpectrum(c, parsed.sampleRate);
+        const k0 = Math.ceil((20 - s.series.x0) / s.series.dx - 1e-9);
+        const k1 = Math.floor((120 - s.series.x0) / s.series.dx + 1e-9);
+        return [c.name, { unit: s.unit, resolutionHz: s.resolutionHz, values: Array.from(s.series.values.subarray(k0, k1 + 1)) }];
+      }),
+    );
+    // The recording is gone: only the stored spectra can answer (a fresh server start: empty caches).
+    await blob.delete(row.blob_key);
+    clearSignalCaches();
+    for (const c of parsed.channels) {
+      const v = await view(c.name);
+      expect(v).toMatchObject({ channel: c.name, unit: expected.get(c.name)!.unit, decimated: false, resolutionHz: expected.get(c.name)!.resolutionHz });
+      expect(v.max).toEqual(expected.get(c.name)!.values);
+    }
+    expect((await agent.get(`/api/captures/${id}/spectrum?kind=vibration&buckets=300`)).body).toMatchObject({ channel: parsed.channels[3].name, unit: "mm/s" });
+    // Without a stored spectrum (older captures) the recording is transformed, as before: same values.
+    await blob.put(row.blob_key, captureFile({ seed: 15, phases: 3, vibration: { unit: "m/s2", axis: "H" } }));
+    await blob.delete(spectrumBlobKey(row.blob_key, parsed.channels[0].name));
+    clearSignalCaches();
+    expect((await view(parsed.channels[0].name)).max).toEqual(expected.get(parsed.channels[0].name)!.values);
   });
 });
 

@@ -6,6 +6,9 @@ import { io as ioClient } from "socket.io-client";
 import { notifyEvent } from "../../server/events.ts";
 import { createGatewayToken } from "../../server/gateway/tokens.ts";
 import type { Realtime } from "../../server/realtime.ts";
+import jwt from "jsonwebtoken";
+import { signedIn } from "../helpers/context.ts";
+import { SESSION_COOKIE, signSession } from "../../server/auth.ts";
 
 // Two "server processes" on one database: each has its own app, knex pool, socket.io server and adapter.
 let envA: TestEnv;
@@ -118,5 +121,72 @@ describe("live updates", () => {
     serverA.realtime.disconnectGateway(gw.id, "revoked for the test");
     expect(await told).toEqual({ code: "revoked", message: "revoked for the test" });
     expect(await dropped).toBe("io server disconnect");
+  });
+});
+
+describe("sessions of browser sockets", () => {
+  /** A fresh user (not a shared demo user) and a session cookie for them. */
+  async function freshUser(role: "technician" | "analyst", expiresInS?: number) {
+    const email = `rt-${Date.now().toString(36)}-${Math.floor(Math.random() * 1e6)}@example.test`;
+    const [user] = await envA.db("users").insert({ email, name: `Realtime ${role}`, role, active: true }).returning(["id", "email", "name", "role"]);
+    const token = expiresInS
+      ? jwt.sign({ sub: String(user.id), role }, envA.config.jwtSecret, { algorithm: "HS256", expiresIn: expiresInS })
+      : signSession(envA.config, user);
+    return { user, cookie: `${SESSION_COOKIE}=${token}` };
+  }
+  const ended = (socket: Socket) =>
+    Promise.all([nextEvent<{ reason: string; message: string }>(socket, "session:ended"), new Promise((resolve) => socket.once("disconnect", resolve))]);
+
+  it("deactivating a user closes their sockets on every server, telling them why", async () => {
+    const { user, cookie } = await freshUser("technician");
+    const onA = track(await connectBrowser(serverA.url, cookie));
+    const onB = track(await connectBrowser(serverB.url, cookie));
+    const endA = ended(onA);
+    const endB = ended(onB);
+    const admin = await signedIn(envA.app, "admin");
+    expect((await admin.patch(`/api/users/${user.id}`).send({ active: false })).status).toBe(200);
+    for (const [told, reason] of [await endA, await endB]) {
+      expect(told).toEqual({ reason: "deactivated", message: expect.stringMatching(/deactivated/) });
+      expect(reason).toBe("io server disconnect");
+    }
+    // And the cookie no longer opens a socket.
+    await expect(connectBrowser(serverB.url, cookie)).rejects.toThrow("unauthorized");
+  });
+
+  it("a role change closes the sockets; reconnecting joins the new role's rooms", async () => {
+    const { user, cookie } = await freshUser("technician");
+    const before = track(await connectBrowser(serverB.url, cookie));
+    const end = ended(before);
+    const admin = await signedIn(envA.app, "admin");
+    expect((await admin.patch(`/api/users/${user.id}`).send({ role: "analyst" })).status).toBe(200);
+    expect((await end)[0]).toMatchObject({ reason: "role-changed" });
+    const after = track(await connectBrowser(serverB.url, cookie));
+    const got = nextEvent(after, "review:changed");
+    serverA.realtime.publish("review:changed", { captureId: 8 });
+    expect(await got).toEqual({ captureId: 8 });
+  });
+
+  it("an expired session receives no more events: the socket is told and closed", async () => {
+    const { cookie } = await freshUser("technician", 3);
+    const socket = track(await connectBrowser(serverA.url, cookie));
+    const seen = counter(socket, "capture:status");
+    const got = nextEvent(socket, "capture:status");
+    serverA.realtime.publish("capture:status", { id: 1, assetId: 1, status: "queued" });
+    await got; // still valid: delivered
+    const end = ended(socket);
+    await sleep(3100);
+    serverA.realtime.publish("capture:status", { id: 2, assetId: 1, status: "queued" });
+    expect((await end)[0]).toMatchObject({ reason: "expired" });
+    await sleep(200);
+    expect(seen).toEqual([{ id: 1, assetId: 1, status: "queued" }]);
+  });
+
+  it("a deactivation made outside the API is caught by the periodic re-check", async () => {
+    const { user, cookie } = await freshUser("analyst");
+    const socket = track(await connectBrowser(serverA.url, cookie));
+    const end = ended(socket);
+    await envA.db("users").where({ id: user.id }).update({ active: false });
+    expect(await serverA.realtime.revalidateSessions()).toBeGreaterThanOrEqual(1);
+    expect((await end)[0]).toMatchObject({ reason: "deactivated" });
   });
 });
