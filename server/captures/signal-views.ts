@@ -22,9 +22,14 @@ export function clearSignalCaches() {
 }
 
 async function captureRow(db: Knex, id: number) {
-  const row = await db("captures").where({ id }).first("id", "blob_key", "file_name", "sample_rate", "channels");
+  const row = await db("captures").where({ id }).first("id", "blob_key", "file_name", "sample_rate", "channels", "status");
   if (!row) throw notFound("No such capture.");
-  if (!row.blob_key) throw new HttpError(409, "This capture has no stored recording yet.", undefined, "no-recording");
+  if (!row.blob_key) {
+    // An analysed capture without a recording keeps its readings only (the demo history does this): gone for good.
+    if (row.status === "analysed")
+      throw new HttpError(410, "The raw recording of this capture was not kept; its readings are still shown.", undefined, "recording-not-kept");
+    throw new HttpError(409, "This capture has no stored recording yet.", undefined, "no-recording");
+  }
   return row;
 }
 
