@@ -18,11 +18,23 @@ export interface RunningServer {
   close(): Promise<void>;
 }
 
+/** The mail fake lives in this process, so when its usual port is taken any free loopback port will do. */
+async function startMailFakeOnFreePort(db: ReturnType<typeof createKnex>, port: number) {
+  try {
+    return await startMailFake({ db, port, host: "127.0.0.1" });
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== "EADDRINUSE") throw err;
+    const fake = await startMailFake({ db, port: 0, host: "127.0.0.1" });
+    console.log(`mail fake: port ${port} is in use, catching mail on 127.0.0.1:${fake.port} instead`);
+    return fake;
+  }
+}
+
 /** Start the HTTP server (API, static client) and, in development, the local mail fake. */
 export async function startServer(config: Config = loadConfig(), opts: { staticDir?: string } = {}): Promise<RunningServer> {
   const db = createKnex(config.databaseUrl);
   await migrateLatest(db);
-  const fake = config.mailFake ? await startMailFake({ db, port: config.smtp.port, host: "127.0.0.1" }) : null;
+  const fake = config.mailFake ? await startMailFakeOnFreePort(db, config.smtp.port) : null;
   if (fake) config.smtp.port = fake.port;
   const ctx: AppContext = { db, config, mailer: createMailer(config), services: {} };
   await installPipeline(ctx); // blob store + job queue: services.blob, services.queue
