@@ -37,7 +37,9 @@ export function Layout() {
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:rounded focus:bg-surface focus:px-3 focus:py-2">
         Skip to content
       </a>
-      <header className="sticky top-0 z-30 border-b border-line bg-surface/95 backdrop-blur">
+      {/* Sticky on screen; static in print. Full-page captures are taken from the top (tests/browser/harness.ts),
+          where the sticky header sits in its own place above the content. */}
+      <header className="sticky top-0 z-30 border-b border-line bg-surface/95 backdrop-blur print:static print:backdrop-blur-none">
         <div className="mx-auto flex h-13 max-w-[1600px] items-center gap-4 px-4 sm:px-6">
           <NavLink to="/" className="flex shrink-0 items-center gap-2 text-ink no-underline" aria-label="Barhound start page">
             <Logo className="size-7" />

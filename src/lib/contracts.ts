@@ -1,6 +1,7 @@
 // Response shapes of the server API (docs/api.md), as TypeScript types for the client. Field names are camelCase.
 // Values the contract leaves open (e.g. how a grade is spelled) are typed loosely and normalised in lib/grades.ts.
 import type { Permission, Role } from "../../server/permissions.ts";
+import type { AnalysisResult } from "../engine/types.ts";
 
 export type { Permission, Role };
 export { ROLES } from "../../server/permissions.ts";
@@ -92,24 +93,56 @@ export interface AssetDetail extends Asset {
 
 export type CaptureStatus = "received" | "queued" | "analysing" | "analysed" | "failed";
 
+/** The engine's result for a capture, merged with the analysis row's id and versions (GET /captures/:id). */
+export type CaptureAnalysis = AnalysisResult & {
+  id: number;
+  version: number;
+  engineVersion: string;
+  nameplateVersion: number | null;
+  analysedAt: string;
+};
+
 export interface Capture {
   id: number;
   assetId: number;
   assetTag: string;
   assetName: string;
+  siteId: number;
+  measurementPointId: number | null;
   takenAt: string | null;
-  takenBy: string | number | null;
+  /** The signed-in user who uploaded it; null for gateway streams and imports. */
+  takenBy: { id: number; name: string } | null;
+  gatewayId: number | null;
   source: string;
   fileName: string | null;
   format: string | null;
   sampleRate: number | null;
   durationS: number | null;
+  byteSize: number | null;
   channels: { name: string; kind: string; unit: string; position?: string | null }[];
   status: CaptureStatus;
   error: string | null;
   notes: string | null;
+  attempts: number;
   createdAt: string;
-  analysis: (Record<string, unknown> & { id: number; version: number; engineVersion: string }) | null;
+  queuedAt: string | null;
+  analysedAt: string | null;
+  /** Only on GET /captures/:id (the list leaves it out): the current analysis, or null before one exists. */
+  analysis?: CaptureAnalysis | null;
+  /** Only on GET /captures/:id: every analysis version of the capture. */
+  analyses?: { id: number; version: number; isCurrent: boolean; engineVersion: string; nameplateVersion: number | null; createdAt: string }[];
+}
+
+/** GET /captures/:id: a capture with its current analysis. */
+export type CaptureDetail = Capture & { analysis: CaptureAnalysis | null };
+
+export interface Verdict {
+  id: number;
+  verdict: string;
+  note: string | null;
+  analystId: number | null;
+  analystName: string | null;
+  createdAt: string;
 }
 
 export interface Finding {
@@ -117,6 +150,7 @@ export interface Finding {
   assetId: number;
   assetTag: string;
   assetName: string;
+  siteId: number;
   siteName: string;
   kind: string;
   level: GradeValue;
@@ -124,11 +158,14 @@ export interface Finding {
   summary: string;
   status: string;
   createdAt: string;
+  /** When the capture behind the finding was taken. */
+  takenAt: string | null;
   captureId: number | null;
   analysisId: number | null;
   loadPct: number | null;
   criticality: string | number | null;
-  verdicts: { verdict: string; note?: string; by?: string; at?: string; createdAt?: string }[];
+  /** Oldest first. */
+  verdicts: Verdict[];
 }
 
 export type InspectionStatus = "planned" | "in_progress" | "done" | "cancelled";

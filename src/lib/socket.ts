@@ -3,10 +3,14 @@
 import { io, type Socket } from "socket.io-client";
 import type { QueryClient, QueryKey } from "@tanstack/react-query";
 import { rootKeys } from "./query.ts";
+import type { CaptureStatus, GradeValue } from "./contracts.ts";
 
+/** The events server/realtime.ts sends to browsers (EVENT_AUDIENCE; payloads as in docs/api.md "Live updates"). */
 export interface ServerEvents {
-  "capture:status": (e: { id: number; assetId: number; status: string; error?: string | null }) => void;
-  "finding:new": (e: { id: number; assetId: number; kind: string; level: unknown }) => void;
+  /** `error` only with status "failed". */
+  "capture:status": (e: { id: number; assetId: number; status: CaptureStatus; error?: string | null }) => void;
+  /** kind "rotor" (level "R1".."R5") or "vibration" (level a zone letter). */
+  "finding:new": (e: { id: number; assetId: number; kind: string; level: GradeValue }) => void;
   "inspection:changed": (e: { id: number }) => void;
 }
 export type ServerEventName = keyof ServerEvents;

@@ -79,7 +79,15 @@ export async function startHarness(): Promise<Harness> {
     },
     async screenshot(name) {
       const file = path.join(SCREENSHOT_DIR, `${name}.png`);
+      // A full-page capture keeps the scroll offset, so the sticky header would be drawn where the window was
+      // scrolled to, over the content. Capture from the top, where it sits in its own place, then scroll back.
+      const y = await page.evaluate(() => {
+        const at = window.scrollY;
+        window.scrollTo(0, 0);
+        return at;
+      });
       await page.screenshot({ path: file, fullPage: true });
+      await page.evaluate((at) => window.scrollTo(0, at), y);
       return file;
     },
     async close() {

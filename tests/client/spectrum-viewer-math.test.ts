@@ -7,6 +7,7 @@ import {
   nearestIndex,
   offsetLabel,
   panRange,
+  periodEnvelope,
   placeMarkers,
   resampleOnto,
   stepPeak,
@@ -51,6 +52,35 @@ describe("marker placement on the frequency axis", () => {
     [280, 284, 440, 600].forEach((x, i) => expect(placed[i].x).toBeCloseTo(x, 9));
     // the two labels 4 px apart cannot share a row; far ones go back to row 0
     expect(placed.map((p) => p.row)).toEqual([0, 1, 0, 0]);
+    expect(placed.every((p) => p.labelled)).toBe(true);
+  });
+
+  it("keeps only the strongest label of lines that sit on top of each other, and all of them once zoomed apart", () => {
+    // 1× at 29.8 Hz with its pole-pass sidebands ± 0.88 Hz, and 2×LF; 0–2500 Hz over 800 px is ~3 Hz per px
+    const markers = [
+      { name: "1× − Fp", family: "vibration", hz: 28.92, level: 0.05, channel: "x" },
+      { name: "1×", family: "vibration", hz: 29.8, level: 0.9, channel: "x" },
+      { name: "1× + Fp", family: "vibration", hz: 30.68, level: 0.04, channel: "x" },
+      { name: "2×LF", family: "vibration", hz: 240, level: 0.3, channel: "x" },
+    ];
+    const full = placeMarkers(markers, { min: 0, max: 2500 }, box, { mergePx: 8 });
+    expect(full.map((p) => [p.marker.name, p.labelled])).toEqual([
+      ["1× − Fp", false],
+      ["1×", true],
+      ["1× + Fp", false],
+      ["2×LF", true],
+    ]);
+    expect(full.filter((p) => p.labelled).map((p) => p.row)).toEqual([0, 0]);
+    const zoomed = placeMarkers(markers, { min: 25, max: 35 }, box, { mergePx: 8 });
+    expect(zoomed.every((p) => p.labelled)).toBe(true);
+  });
+
+  it("leaves a label off rather than over another when every row is taken", () => {
+    // lines 5 px apart (80 px per Hz), labels 22 px wide: three rows hold the first three
+    const markers = Array.from({ length: 5 }, (_, i) => ({ name: `m${i}`, family: "slot", hz: 50 + i * 0.0625, level: -i, channel: "Ia" }));
+    const placed = placeMarkers(markers, { min: 45, max: 55 }, box, { maxRows: 3, mergePx: 3 });
+    expect(placed.map((p) => p.labelled)).toEqual([true, true, true, false, false]);
+    expect(placed.filter((p) => p.labelled).map((p) => p.row)).toEqual([0, 1, 2]);
   });
 });
 
@@ -198,5 +228,38 @@ describe("zoom and pan", () => {
     expect(w.min).toBeCloseTo(42.5, 10);
     expect(w.max).toBeCloseTo(57.5, 10);
     expect(supplyWindow(60, null)).toEqual({ min: 55, max: 65 });
+  });
+});
+
+describe("waveform envelope over one period", () => {
+  it("holds the crest at every point when buckets are shorter than a cycle (no beat)", () => {
+    // 60 Hz, 20 s, 2000 buckets of 10 ms: each bucket holds 0.6 cycle
+    const f = 60;
+    const n = 2000;
+    const dt = 20 / n;
+    const t = Array.from({ length: n }, (_, i) => i * dt);
+    const max: number[] = [];
+    const min: number[] = [];
+    for (let i = 0; i < n; i++) {
+      let a = Infinity;
+      let b = -Infinity;
+      for (let k = 0; k < 50; k++) {
+        const v = 200 * Math.sin(2 * Math.PI * f * (i * dt + (k / 50) * dt));
+        a = Math.min(a, v);
+        b = Math.max(b, v);
+      }
+      min.push(a);
+      max.push(b);
+    }
+    // the raw bucket maxima beat well below the crest
+    expect(Math.min(...max)).toBeLessThan(150);
+    const e = periodEnvelope(t, min, max, 1 / f);
+    expect(e.window).toBe(2);
+    expect(Math.min(...e.max)).toBeGreaterThan(199);
+    expect(Math.max(...e.min)).toBeLessThan(-199);
+  });
+  it("leaves buckets that already span a period as they are", () => {
+    const e = periodEnvelope([0, 0.1, 0.2], [-1, -2, -1], [1, 2, 1], 0.02);
+    expect(e).toEqual({ min: [-1, -2, -1], max: [1, 2, 1], window: 1 });
   });
 });

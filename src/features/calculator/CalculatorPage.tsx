@@ -5,7 +5,7 @@ import { Button } from "../../components/Button.tsx";
 import { Alert } from "../../components/Alert.tsx";
 import { Field, FormError, Select, TextInput, useZodForm } from "../../components/Form.tsx";
 import { Page, Section } from "../../components/Page.tsx";
-import { CurveChart, type AnnotatedPoint } from "../spectrum/chart/CurveChart.tsx";
+import { CurveChart, type AnnotatedPoint } from "../../components/charts/CurveChart.tsx";
 import { calculatorSchema, EXAMPLE, useEvaluate, type CalculatorResult, type CalculatorValues } from "./api/evaluate.ts";
 
 type NumField = Exclude<keyof CalculatorValues, "connection">;

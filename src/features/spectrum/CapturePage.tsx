@@ -60,7 +60,8 @@ export default function CapturePage() {
       }
       description={
         <>
-          Taken {formatDateTime(c.takenAt ?? c.createdAt)} · {c.fileName ?? c.source} · <span className="num">{c.sampleRate ?? "—"} Hz</span> sample rate ·{" "}
+          Taken {formatDateTime(c.takenAt ?? c.createdAt)}
+          {c.takenBy && <> by {c.takenBy.name}</>} · {c.fileName ?? c.source} · <span className="num">{c.sampleRate ?? "—"} Hz</span> sample rate ·{" "}
           <span className="num">{c.durationS?.toFixed(1) ?? "—"} s</span> · {STATUS_WORD[c.status] ?? c.status}
           {a && <> · engine <span className="num">{a.engineVersion}</span>, analysis v{a.version}</>}
         </>
@@ -108,7 +109,7 @@ export default function CapturePage() {
               </Section>
             )}
             <Section title="Time waveform">
-              <WaveformPlot captureId={c.id} channels={c.channels} durationS={c.durationS} supplyHz={a.supplyHz} />
+              <WaveformPlot captureId={c.id} channels={c.channels} durationS={c.durationS} supplyHz={a.supplyHz} rpm={a.rpm} />
             </Section>
           </div>
           <aside className="flex flex-col gap-4">

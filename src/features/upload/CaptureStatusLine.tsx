@@ -10,7 +10,8 @@ export function CaptureStatusLine({ id, initialStatus = "received" }: { id: numb
   const status = q.data?.status ?? initialStatus;
   const failed = status === "failed";
   const at = stepIndex(status);
-  const analysis = q.data?.analysis as { rotorGrade?: unknown; rotorAssessable?: boolean; notAssessableReason?: string } | null | undefined;
+  // The engine's rotor result (src/engine/types.ts BrokenBarResult): grade "R1".."R5" or null when not assessable.
+  const rotor = q.data?.analysis?.brokenBar;
   return (
     <div className="flex flex-wrap items-center gap-x-3 gap-y-1 text-caption" data-testid="capture-status" data-status={status}>
       <ol className="flex items-center gap-1" aria-label={`Capture ${id}: ${status}`}>
@@ -32,8 +33,8 @@ export function CaptureStatusLine({ id, initialStatus = "received" }: { id: numb
         })}
       </ol>
       {failed && q.data?.error && <span className="text-danger">{q.data.error}</span>}
-      {status === "analysed" && analysis && "rotorGrade" in analysis && (
-        <GradeBadge compact grade={analysis.rotorGrade} assessable={analysis.rotorAssessable} reason={analysis.notAssessableReason} />
+      {status === "analysed" && rotor && (
+        <GradeBadge compact grade={rotor.grade ?? rotor.gradeName} assessable={rotor.assessable} reason={rotor.reason} />
       )}
       <Link to={`/captures/${id}`} className="ml-auto">
         Open capture <span className="num">#{id}</span>

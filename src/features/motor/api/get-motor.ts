@@ -1,9 +1,8 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { apiGet, type Paged } from "../../../lib/api.ts";
-import type { AssetDetail, Capture, Finding, Inspection } from "../../../lib/contracts.ts";
+import type { AssetDetail, Capture, CaptureDetail, Finding, Inspection } from "../../../lib/contracts.ts";
 import type { MotorCurves, KeyPoints } from "../../../engine/motor-model/index.ts";
 import type { MotorModelInput } from "../../../engine/motor-model/types.ts";
-import type { AnalysisResult } from "../../../engine/types.ts";
 import { motorKeys } from "./keys.ts";
 
 export const motorQueryOptions = (id: number) =>
@@ -69,6 +68,6 @@ export const useMotorInspections = (assetId: number) => useQuery(motorInspection
 export const captureDetailQueryOptions = (captureId: number) =>
   queryOptions({
     queryKey: motorKeys.capture(captureId),
-    queryFn: ({ signal }) => apiGet<Capture & { analysis: (AnalysisResult & { id: number }) | null }>(`/captures/${captureId}`, undefined, signal),
+    queryFn: ({ signal }) => apiGet<CaptureDetail>(`/captures/${captureId}`, undefined, signal),
   });
 export const useCaptureDetail = (captureId: number | null) => useQuery({ ...captureDetailQueryOptions(captureId ?? NaN), enabled: captureId !== null });

@@ -3,7 +3,7 @@
 import { useMemo } from "react";
 import { loadFromSlip } from "../../../engine/motor-model/index.ts";
 import { formatDate } from "../../../lib/format.ts";
-import { CurveChart, type AnnotatedPoint } from "../../spectrum/chart/CurveChart.tsx";
+import { CurveChart, type AnnotatedPoint } from "../../../components/charts/CurveChart.tsx";
 import type { MotorModelResponse, TrendPoint } from "../api/get-motor.ts";
 
 const CURVE = "#084c4e";

@@ -6,7 +6,7 @@ import type { AssetDetail } from "../../../lib/contracts.ts";
 import { formatDate } from "../../../lib/format.ts";
 import { ROTOR_GRADE_NAMES, type RotorGrade } from "../../../engine/types.ts";
 import { ZONE_LIMITS_MM_S } from "../../../engine/vibration.ts";
-import { CurveChart, type CurveSeries, type GuideLine, type RegionLabel } from "../../spectrum/chart/CurveChart.tsx";
+import { CurveChart, type CurveSeries, type GuideLine, type RegionLabel } from "../../../components/charts/CurveChart.tsx";
 import type { TrendPoint } from "../api/get-motor.ts";
 import { bandHalfWidth, GRADE_BOUNDARIES_DB, type ProjectionOutcome } from "../lib/projection.ts";
 import { machineClass, sidebandProjection } from "../lib/trend.ts";
@@ -14,6 +14,7 @@ import { machineClass, sidebandProjection } from "../lib/trend.ts";
 const DAY_MS = 86_400_000;
 const LINE = "#084c4e";
 const PROJ = "#ad5228";
+const NA_COLOR = "#85888c";
 
 const GRADE_GUIDES: GuideLine[] = GRADE_BOUNDARIES_DB.map((db, i) => ({ y: db, label: `${db} dB  R${i + 1} | R${i + 2}`, color: "rgba(94,27,23,0.75)" }));
 const GRADE_REGIONS: RegionLabel[] = [
@@ -42,6 +43,17 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
     <div className="grid gap-4 lg:grid-cols-2">
       <TrendBox title="Lower sideband depth below supply" note="higher is healthier; lines are the grade boundaries" wide>
         <SidebandChart points={points} outcome={outcome} />
+        {points.some((p) => p.rotorAssessable === false) && (
+          <p className="flex items-start gap-1.5 text-caption text-ink-muted" data-testid="not-assessable-legend">
+            <svg width="12" height="12" aria-hidden="true" className="mt-0.5 shrink-0">
+              <circle cx="6" cy="6" r="4" fill="#fff" stroke={NA_COLOR} strokeWidth="2" />
+            </svg>
+            <span>
+              Not assessable (e.g. light load): not graded and not used in the projection; on the date axis when the capture has no depth. Point at a
+              ring for its date.
+            </span>
+          </p>
+        )}
         {!points.some((p) => p.sidebandDb !== null) && (
           <p className="text-caption text-ink-muted">
             None of the <span className="num">{points.length}</span> captures could be graded (not assessable, e.g. light load); open a capture for its reason.
@@ -125,7 +137,9 @@ function TrendBox({ title, note, children, wide }: { title: string; note?: strin
 
 function SidebandChart({ points, outcome }: { points: TrendPoint[]; outcome: ProjectionOutcome }) {
   const chart = useMemo(() => {
-    const measured = points.filter((p) => p.sidebandDb !== null).map((p) => ({ t: Date.parse(p.takenAt), db: p.sidebandDb! }));
+    // Graded captures make the line; not-assessable ones with a depth are hollow rings off the line.
+    const measured = points.filter((p) => p.sidebandDb !== null && p.rotorAssessable !== false).map((p) => ({ t: Date.parse(p.takenAt), db: p.sidebandDb! }));
+    const notAssessable = points.filter((p) => p.rotorAssessable === false).map((p) => ({ t: Date.parse(p.takenAt), db: p.sidebandDb }));
     const grid: number[] = [];
     const proj = outcome.kind === "projection" ? outcome.projection : null;
     if (proj) {
@@ -135,7 +149,7 @@ function SidebandChart({ points, outcome }: { points: TrendPoint[]; outcome: Pro
       const start = last - 30 * DAY_MS;
       for (let i = 0; i <= 40; i++) grid.push(start + ((Math.max(end, proj.crossingMs + DAY_MS) - start) * i) / 40);
     }
-    const xsMs = [...new Set([...measured.map((m) => m.t), ...grid])].sort((a, b) => a - b);
+    const xsMs = [...new Set([...measured.map((m) => m.t), ...notAssessable.map((m) => m.t), ...grid])].sort((a, b) => a - b);
     const byT = new Map(measured.map((m) => [m.t, m.db]));
     const vals = xsMs.map((t) => byT.get(t) ?? null);
     const series: CurveSeries[] = [{ label: "measured", values: vals, color: LINE, points: true, spanGaps: true }];
@@ -151,10 +165,13 @@ function SidebandChart({ points, outcome }: { points: TrendPoint[]; outcome: Pro
       series.push({ label: "95 % band lower", values: xsMs.map((t) => (inGrid.has(t) ? fitAt(t)! - half(t) : null)), color: "rgba(173,82,40,0.35)", points: false, spanGaps: true });
       bands = [{ upper: 3, lower: 4, fill: "rgba(173,82,40,0.12)" }];
     }
-    const all = measured.map((m) => m.db);
+    const all = [...measured.map((m) => m.db), ...notAssessable.flatMap((m) => (m.db === null ? [] : [m.db]))];
     const lo = Math.min(30, ...all.map((v) => v - 3));
     const hi = Math.max(60, ...all.map((v) => v + 3));
-    return { x: xsMs.map((t) => t / 1000), series, bands, yRange: [lo, hi] as [number, number], proj };
+    // A little room at both ends, so the first and last markers are not cut by the plot's edge.
+    const pad = xsMs.length > 1 ? (xsMs[xsMs.length - 1] - xsMs[0]) * 0.015 : DAY_MS;
+    const xRange = xsMs.length ? ([(xsMs[0] - pad) / 1000, (xsMs[xsMs.length - 1] + pad) / 1000] as [number, number]) : undefined;
+    return { x: xsMs.map((t) => t / 1000), series, bands, yRange: [lo, hi] as [number, number], xRange, proj, notAssessable };
   }, [points, outcome]);
 
   return (
@@ -167,13 +184,22 @@ function SidebandChart({ points, outcome }: { points: TrendPoint[]; outcome: Pro
       yLabel="Depth below supply (dB)"
       yDigits={0}
       yRange={chart.yRange}
+      xRange={chart.xRange}
       guides={GRADE_GUIDES}
       regions={GRADE_REGIONS}
-      points={
-        chart.proj
-          ? [{ x: chart.proj.crossingMs / 1000, y: chart.proj.boundaryDb, color: PROJ, shape: "diamond", label: `≈ ${formatDate(new Date(chart.proj.crossingMs).toISOString())} (estimate)` }]
-          : []
-      }
+      points={[
+        ...chart.notAssessable.map((m) => ({
+          x: m.t / 1000,
+          y: m.db,
+          color: NA_COLOR,
+          shape: "ring" as const,
+          size: 4,
+          hint: `Not assessable · ${formatDate(new Date(m.t).toISOString())}${m.db === null ? "" : ` · ${m.db.toFixed(1)} dB, not graded`}`,
+        })),
+        ...(chart.proj
+          ? [{ x: chart.proj.crossingMs / 1000, y: chart.proj.boundaryDb, color: PROJ, shape: "diamond" as const, label: `≈ ${formatDate(new Date(chart.proj.crossingMs).toISOString())} (estimate)` }]
+          : []),
+      ]}
       height={300}
       label="Sideband depth over time with grade boundaries and projection"
     />

@@ -1,11 +1,9 @@
 import { queryOptions, useQuery } from "@tanstack/react-query";
 import { apiGet } from "../../../lib/api.ts";
-import type { Capture } from "../../../lib/contracts.ts";
-import type { AnalysisResult } from "../../../engine/types.ts";
+import type { CaptureDetail } from "../../../lib/contracts.ts";
 import { captureKeys } from "./keys.ts";
 
-export type CaptureAnalysis = AnalysisResult & { id: number; version: number; engineVersion: string };
-export type CaptureDetail = Omit<Capture, "analysis"> & { analysis: CaptureAnalysis | null };
+export type { CaptureAnalysis, CaptureDetail } from "../../../lib/contracts.ts";
 
 export const captureQueryOptions = (id: number) =>
   queryOptions({

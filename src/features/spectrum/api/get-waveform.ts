@@ -3,10 +3,14 @@ import { apiGet } from "../../../lib/api.ts";
 import { captureKeys, type WaveformParams } from "./keys.ts";
 
 export interface WaveformResponse {
+  channel: string;
+  unit: string;
+  sampleRate: number;
+  /** True when each point is the min/max of a bucket of samples, false when every sample is returned. */
+  decimated: boolean;
   t: number[];
   min: number[];
   max: number[];
-  unit: string;
 }
 
 export const waveformQueryOptions = (captureId: number, p: WaveformParams) =>

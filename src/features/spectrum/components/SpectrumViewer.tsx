@@ -10,7 +10,7 @@ import { formatDateTime } from "../../../lib/format.ts";
 import type { Marker } from "../../../engine/types.ts";
 import { useSpectrum } from "../api/get-spectrum.ts";
 import { familyForKey, familyStyle, MARKER_FAMILIES } from "../lib/marker-style.ts";
-import { useDebounced } from "../lib/use-debounced.ts";
+import { useSettled } from "../lib/use-settled.ts";
 import {
   cursorReadout,
   findPeaks,
@@ -61,7 +61,11 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
     if (kind === "vibration") return { min: 0, max: Math.min(bounds.max, Math.max(200, (supplyHz ?? 50) * 5)) };
     return supplyHz ? supplyWindow(supplyHz, slip) : bounds;
   }, [kind, supplyHz, slip, bounds]);
-  const [view, setView] = useState<Range>(initialView);
+  // Keys and buttons set the view at once (one step, one fetch); wheel zoom and drag settle 150 ms after the last
+  // change, so a gesture costs one refetch when it stops.
+  const [view, settled, changeView] = useSettled<Range>(initialView, 150);
+  const setView = (next: Range | ((v: Range) => Range)) => changeView(next, "now");
+  const setViewGesture = (next: Range | ((v: Range) => Range)) => changeView(next, "debounced");
   const [cursorHz, setCursorHz] = useState<number | null>(null);
   const [hover, setHover] = useState<{ hz: number; idx: number | null } | null>(null);
   const [families, setFamilies] = useState<Set<string>>(
@@ -77,7 +81,6 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   // About one bucket per canvas pixel of a wide plot; the server returns every bin when the window holds fewer.
   const buckets = 2000;
 
-  const settled = useDebounced(view, 150);
   const params = useMemo(
     () => ({ channel, kind, fmin: round(settled.min), fmax: round(settled.max), buckets }),
     [channel, kind, settled.min, settled.max, buckets],
@@ -152,7 +155,9 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   };
 
   const minSpan = Math.max(0.05, (s?.resolutionHz ?? 0.01) * 20);
-  const zoom = (factor: number, center?: number) => setView((v) => zoomRange(v, factor, bounds, center ?? (cursorHz !== null && cursorHz >= v.min && cursorHz <= v.max ? cursorHz : undefined), minSpan));
+  const zoomTo = (v: Range, factor: number, center?: number) =>
+    zoomRange(v, factor, bounds, center ?? (cursorHz !== null && cursorHz >= v.min && cursorHz <= v.max ? cursorHz : undefined), minSpan);
+  const zoom = (factor: number) => setView((v) => zoomTo(v, factor));
 
   const onKeyDown = (e: KeyboardEvent<HTMLDivElement>) => {
     if (e.target instanceof HTMLInputElement || e.target instanceof HTMLSelectElement || e.target instanceof HTMLTextAreaElement) return;
@@ -273,13 +278,14 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
             yLabel={yLabel}
             yDigits={isCurrent ? 0 : 2}
             label={`${title}, ${channel}, ${view.min.toFixed(1)} to ${view.max.toFixed(1)} Hz`}
-            onSelectRange={(r) => setView(zoomRange(r, 1, bounds, undefined, minSpan))}
+            onSelectRange={(r) => setViewGesture(zoomRange(r, 1, bounds, undefined, minSpan))}
+            onPan={(from, fraction) => setViewGesture(panRange(from, fraction, bounds))}
             onPick={(hz) => {
               setNote(null);
               setCursorHz(hz);
             }}
             onHover={(hz, idx) => setHover(hz === null ? null : { hz, idx })}
-            onWheelZoom={(c, f) => zoom(f, c)}
+            onWheelZoom={(c, f) => setViewGesture((v) => zoomTo(v, f, c))}
           />
         ) : spectrum.isError ? (
           <div role="alert" className="flex h-[360px] items-center justify-center rounded-md border border-danger/30 bg-danger-soft text-danger">
@@ -392,6 +398,7 @@ function KeyHelp({ isCurrent, families }: { isCurrent: boolean; families: string
     ["Shift + ← / →", "Pan a quarter of the view"],
     ["+ / −", "Zoom in / out about the cursor (or the wheel over the plot)"],
     ["drag", "Zoom to the dragged span"],
+    ["Shift + drag", "Pan the view (or drag with the middle button)"],
     ...(isCurrent ? ([["a", "Back to the band around the supply"]] as [string, string][]) : []),
     ["f", "Full range"],
     ["Esc", "Clear the cursor"],

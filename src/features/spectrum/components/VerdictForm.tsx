@@ -20,10 +20,10 @@ export function VerdictHistory({ f }: { f: Finding }) {
   if (!f.verdicts?.length) return null;
   return (
     <ul className="mt-2 flex flex-col gap-1 text-caption">
-      {(f.verdicts as (Finding["verdicts"][number] & { analystName?: string | null })[]).map((v, i) => (
-        <li key={i} className="rounded-sm bg-sunken px-2 py-1">
+      {f.verdicts.map((v) => (
+        <li key={v.id} className="rounded-sm bg-sunken px-2 py-1">
           <span className="font-semibold">{VERDICT_WORD[v.verdict] ?? v.verdict}</span>
-          {(v.analystName ?? v.by) && <> by {v.analystName ?? v.by}</>} · {formatDateTime(v.at ?? v.createdAt)}
+          {v.analystName && <> by {v.analystName}</>} · {formatDateTime(v.createdAt)}
           {v.note && <p className="text-ink-muted">“{v.note}”</p>}
         </li>
       ))}

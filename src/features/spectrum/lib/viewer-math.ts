@@ -41,20 +41,29 @@ export interface PlacedMarker<M extends MarkerLike = MarkerLike> {
   x: number;
   /** Label row from the top (0, 1, 2 …) so neighbouring labels do not overlap. */
   row: number;
+  /**
+   * False when the label is left off so it does not overlap: its line sits on top of a stronger marker's line
+   * (e.g. 1× and 1× ± pole pass at full range), or every label row is taken there. The line is still drawn; the
+   * label shows on hover, and by itself once the view is zoomed far enough to separate the lines.
+   */
+  labelled: boolean;
 }
 
 /**
  * Places the markers of the enabled families on the x axis (exactly at the engine's frequencies) and stacks
- * their labels in rows so that two labels closer than their width never share a row.
+ * their labels in rows so that two labels closer than their width never share a row. Lines closer than
+ * `mergePx` (they look like one line) keep only the label of the strongest; a label that finds no free row
+ * within `maxRows` is left off rather than drawn over another.
  */
 export function placeMarkers<M extends MarkerLike>(
   markers: readonly M[],
   scale: LinearScale,
   box: PlotBox,
-  opts: { families?: ReadonlySet<string>; channel?: string; labelWidth?: (m: M) => number; maxRows?: number } = {},
+  opts: { families?: ReadonlySet<string>; channel?: string; labelWidth?: (m: M) => number; maxRows?: number; mergePx?: number } = {},
 ): PlacedMarker<M>[] {
   const width = opts.labelWidth ?? ((m: M) => 8 + 7 * m.name.length);
   const maxRows = opts.maxRows ?? 4;
+  const mergePx = opts.mergePx ?? 3;
   const visible: { marker: M; x: number }[] = [];
   for (const m of markers) {
     if (opts.families && !opts.families.has(m.family)) continue;
@@ -63,14 +72,26 @@ export function placeMarkers<M extends MarkerLike>(
     if (x !== null) visible.push({ marker: m, x });
   }
   visible.sort((a, b) => a.x - b.x);
+  // Runs of lines each within mergePx of the previous one: only the strongest of a run gets a label.
+  const labelled = new Array<boolean>(visible.length).fill(true);
+  for (let i = 0; i < visible.length; ) {
+    let j = i;
+    while (j + 1 < visible.length && visible[j + 1].x - visible[j].x < mergePx) j++;
+    let best = i;
+    for (let k = i + 1; k <= j; k++) if (visible[k].marker.level > visible[best].marker.level) best = k;
+    for (let k = i; k <= j; k++) labelled[k] = k === best;
+    i = j + 1;
+  }
   const rowEnds: number[] = [];
-  return visible.map(({ marker, x }) => {
+  return visible.map(({ marker, x }, i) => {
+    if (!labelled[i]) return { marker, x, row: 0, labelled: false };
     const w = width(marker);
     const left = x - w / 2;
     let row = rowEnds.findIndex((end) => end <= left);
-    if (row === -1) row = rowEnds.length < maxRows ? rowEnds.length : rowEnds.indexOf(Math.min(...rowEnds));
+    if (row === -1 && rowEnds.length < maxRows) row = rowEnds.length;
+    if (row === -1) return { marker, x, row: 0, labelled: false };
     rowEnds[row] = x + w / 2;
-    return { marker, x, row };
+    return { marker, x, row, labelled: true };
   });
 }
 
@@ -334,4 +355,41 @@ export function supplyWindow(supplyHz: number, slip: number | null): Range {
   const sf = slip && slip > 0 ? slip * supplyHz : 0;
   const half = Math.max(5, Math.min(supplyHz * 0.5, 5 * sf));
   return { min: Math.max(0, supplyHz - half), max: supplyHz + half };
+}
+
+// ---------------------------------------------------------------------------------------------------------
+// Waveform envelope
+
+/**
+ * The min/max envelope of a decimated waveform over at least one period. When each bucket is shorter than a
+ * cycle, a bucket's max catches the crest in some buckets and not in others, and a line through them beats; the
+ * running max (min) over the `window` buckets that span one period holds the crest (trough) at every point.
+ * `window` is 1 (the input unchanged) when a bucket already spans a period.
+ */
+export function periodEnvelope(
+  t: ArrayLike<number>,
+  min: ArrayLike<number>,
+  max: ArrayLike<number>,
+  periodS: number,
+): { min: number[]; max: number[]; window: number } {
+  const n = t.length;
+  const dt = n > 1 ? (t[n - 1] - t[0]) / (n - 1) : 0;
+  const window = dt > 0 && periodS > 0 ? Math.max(1, Math.ceil(periodS / dt - 1e-9)) : 1;
+  if (window <= 1) return { min: Array.from(min), max: Array.from(max), window: 1 };
+  const before = Math.floor((window - 1) / 2);
+  const lo = new Array<number>(n);
+  const hi = new Array<number>(n);
+  for (let i = 0; i < n; i++) {
+    let a = Infinity;
+    let b = -Infinity;
+    // Centred on i; at the ends shifted inwards, so every point still spans a whole period.
+    const from = Math.max(0, Math.min(i - before, n - window));
+    for (let j = from; j < Math.min(n, from + window); j++) {
+      if (min[j] < a) a = min[j];
+      if (max[j] > b) b = max[j];
+    }
+    lo[i] = a;
+    hi[i] = b;
+  }
+  return { min: lo, max: hi, window };
 }

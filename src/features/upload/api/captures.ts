@@ -1,6 +1,6 @@
 import { queryOptions } from "@tanstack/react-query";
 import { apiGet, apiUpload } from "../../../lib/api.ts";
-import type { Capture, CaptureStatus } from "../../../lib/contracts.ts";
+import type { CaptureDetail, CaptureStatus } from "../../../lib/contracts.ts";
 import { uploadKeys } from "./keys.ts";
 import { isFinalStatus } from "../upload-logic.ts";
 
@@ -30,6 +30,6 @@ export function uploadCapture(file: File, target: UploadTarget, onProgress: (fra
 export const captureQueryOptions = (id: number) =>
   queryOptions({
     queryKey: uploadKeys.capture(id),
-    queryFn: ({ signal }) => apiGet<Capture>(`/captures/${id}`, undefined, signal),
+    queryFn: ({ signal }) => apiGet<CaptureDetail>(`/captures/${id}`, undefined, signal),
     refetchInterval: (q) => (q.state.data && isFinalStatus(q.state.data.status) ? false : 5000),
   });

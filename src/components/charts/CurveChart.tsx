@@ -19,13 +19,17 @@ export interface CurveSeries {
 
 export interface AnnotatedPoint {
   x: number;
-  y: number;
+  /** null: an event without a value (e.g. a capture that could not be graded), drawn on the x axis. */
+  y: number | null;
   label?: string;
   color: string;
   /** 0..1: older history points are drawn fainter. */
   alpha?: number;
+  /** "ring" is hollow (e.g. a reading that could not be graded). */
   shape?: "dot" | "ring" | "diamond";
   size?: number;
+  /** Tooltip when the pointer is over the point. */
+  hint?: string;
 }
 
 export interface GuideLine {
@@ -88,7 +92,7 @@ export function CurveChart(props: CurveChartProps) {
         axis(yLabel, { size: 60, values: yDigits === undefined ? undefined : (_u, splits) => splits.map((v) => (v == null ? "" : v.toFixed(yDigits).replace("-", "\u2212"))) }),
       ],
       cursor: { drag: { x: false, y: false }, points: { show: false } },
-      hooks: { draw: [(u) => drawAnnotations(u, overlay.current)] },
+      hooks: { draw: [(u) => drawAnnotations(u, overlay.current)], setCursor: [(u) => showHint(u, overlay.current)] },
     }),
     // eslint-disable-next-line react-hooks/exhaustive-deps
     [key],
@@ -109,6 +113,33 @@ function padRange(lo: number, hi: number, guides?: GuideLine[]): [number, number
   return [a - pad, b + pad];
 }
 
+/** The hint of the annotated point under the pointer, as the plot's native tooltip. */
+function showHint(u: uPlot, p: CurveChartProps) {
+  const { left, top } = u.cursor;
+  let hint = "";
+  if (left != null && top != null && left >= 0) {
+    let best = 8; // CSS px
+    for (const pt of p.points ?? []) {
+      if (!pt.hint) continue;
+      const py = pt.y === null ? u.over.clientHeight - (pt.size ?? 4) - 1 : u.valToPos(pt.y, "y");
+      const d = Math.hypot(u.valToPos(pt.x, "x") - left, py - top);
+      if (d < best) {
+        best = d;
+        hint = pt.hint;
+      }
+    }
+  }
+  if (u.over.title !== hint) u.over.title = hint;
+}
+
+interface Box {
+  x0: number;
+  y0: number;
+  x1: number;
+  y1: number;
+}
+const overlaps = (a: Box, b: Box, pad: number) => a.x0 < b.x1 + pad && b.x0 < a.x1 + pad && a.y0 < b.y1 + pad && b.y0 < a.y1 + pad;
+
 function drawAnnotations(u: uPlot, p: CurveChartProps) {
   const { ctx, bbox } = u;
   const pr = bbox.width / Math.max(1, u.over.clientWidth || bbox.width);
@@ -116,6 +147,9 @@ function drawAnnotations(u: uPlot, p: CurveChartProps) {
   ctx.font = MONO_FONT.replace("12px", `${Math.round(11 * pr)}px`);
   const yMin = u.scales.y.min ?? 0;
   const yMax = u.scales.y.max ?? 1;
+  // Where text went, so point labels can keep clear of region names and guide labels.
+  const taken: Box[] = [];
+  const textH = 11 * pr;
   for (const r of p.regions ?? []) {
     const lo = Math.max(Math.min(r.from, r.to), yMin);
     const hi = Math.min(Math.max(r.from, r.to), yMax);
@@ -125,6 +159,8 @@ function drawAnnotations(u: uPlot, p: CurveChartProps) {
     ctx.textAlign = "right";
     ctx.textBaseline = "middle";
     ctx.fillText(r.label, bbox.left + bbox.width - 6 * pr, y);
+    const w = ctx.measureText(r.label).width;
+    taken.push({ x0: bbox.left + bbox.width - 6 * pr - w, x1: bbox.left + bbox.width - 6 * pr, y0: y - textH / 2, y1: y + textH / 2 });
   }
   for (const g of p.guides ?? []) {
     if (g.y < yMin || g.y > yMax) continue;
@@ -141,15 +177,29 @@ function drawAnnotations(u: uPlot, p: CurveChartProps) {
     ctx.textAlign = "left";
     ctx.textBaseline = "bottom";
     ctx.fillText(g.label, bbox.left + 4 * pr, y - 2 * pr);
+    taken.push({ x0: bbox.left + 4 * pr, x1: bbox.left + 4 * pr + ctx.measureText(g.label).width, y0: y - 2 * pr - textH, y1: y - 2 * pr });
   }
+  // Measured dots of the series are kept clear of labels too.
+  const xs0 = u.data[0] as ArrayLike<number>;
+  p.series.forEach((sr, si) => {
+    if (!sr.points) return;
+    const vals = u.data[si + 1] as ArrayLike<number | null>;
+    for (let i = 0; i < xs0.length; i++) {
+      const v = vals[i];
+      if (v == null) continue;
+      const x = u.valToPos(xs0[i], "x", true);
+      const y = u.valToPos(v, "y", true);
+      taken.push({ x0: x - 4 * pr, x1: x + 4 * pr, y0: y - 4 * pr, y1: y + 4 * pr });
+    }
+  });
   for (const pt of p.points ?? []) {
     const xMin = u.scales.x.min ?? -Infinity;
     const xMax = u.scales.x.max ?? Infinity;
     const xv = p.xTime ? pt.x : pt.x;
-    if (xv < xMin || xv > xMax || pt.y < yMin || pt.y > yMax) continue;
-    const cx = u.valToPos(xv, "x", true);
-    const cy = u.valToPos(pt.y, "y", true);
+    if (xv < xMin || xv > xMax || (pt.y !== null && (pt.y < yMin || pt.y > yMax))) continue;
     const r = (pt.size ?? 4) * pr;
+    const cx = u.valToPos(xv, "x", true);
+    const cy = pt.y === null ? bbox.top + bbox.height - r - pr : u.valToPos(pt.y, "y", true);
     ctx.globalAlpha = pt.alpha ?? 1;
     ctx.fillStyle = pt.color;
     ctx.strokeStyle = pt.color;
@@ -164,17 +214,33 @@ function drawAnnotations(u: uPlot, p: CurveChartProps) {
       ctx.fill();
     } else {
       ctx.arc(cx, cy, r, 0, Math.PI * 2);
-      if (pt.shape === "ring") ctx.stroke();
-      else ctx.fill();
+      if (pt.shape === "ring") {
+        ctx.fillStyle = "#ffffff"; // hollow: the line behind does not show through
+        ctx.fill();
+        ctx.stroke();
+      } else ctx.fill();
     }
     ctx.globalAlpha = 1;
     if (pt.label) {
-      ctx.fillStyle = "#1c1e20";
-      ctx.textBaseline = "bottom";
+      // Above or below the point, to its right, to its left, or further left (region names sit at the right
+      // edge): the first place inside the plot that clears the other text.
       const w = ctx.measureText(pt.label).width;
-      const right = cx + 8 * pr + w < bbox.left + bbox.width;
-      ctx.textAlign = right ? "left" : "right";
-      ctx.fillText(pt.label, right ? cx + 7 * pr : cx - 7 * pr, cy - 4 * pr);
+      const gap = 7 * pr;
+      const xs = [cx + gap, cx - gap - w, ...Array.from({ length: 12 }, (_, k) => cx - gap - w - (k + 1) * 12 * pr)];
+      const candidates: Box[] = xs
+        .flatMap((x0) => [cy - 4 * pr - textH, cy + 4 * pr].map((y0) => ({ x0, x1: x0 + w, y0, y1: y0 + textH })))
+        .filter((b) => b.x0 >= bbox.left && b.x1 <= bbox.left + bbox.width && b.y0 >= bbox.top && b.y1 <= bbox.top + bbox.height);
+      const box = candidates.find((b) => !taken.some((t) => overlaps(b, t, 2 * pr))) ?? candidates[0];
+      if (box) {
+        taken.push(box);
+        // A light backing keeps the label legible where it crosses a curve or a band.
+        ctx.fillStyle = "rgba(255,255,255,0.85)";
+        ctx.fillRect(box.x0 - 2 * pr, box.y0 - pr, box.x1 - box.x0 + 4 * pr, box.y1 - box.y0 + 2 * pr);
+        ctx.fillStyle = "#1c1e20";
+        ctx.textAlign = "left";
+        ctx.textBaseline = "bottom";
+        ctx.fillText(pt.label, box.x0, box.y1);
+      }
     }
   }
   ctx.restore();

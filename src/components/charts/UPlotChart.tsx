@@ -1,7 +1,7 @@
 // The one uPlot wrapper of the app's charts: it owns create, setData, setSize (ResizeObserver) and destroy.
 // Options are rebuilt only when `optionsKey` changes; new data is pushed with setData. Hooks that need the
 // latest React state should read refs, and callers trigger a repaint with the `redrawKey` prop.
-// (Shared by the spectrum, motor, fleet and calculator screens; a candidate for src/components/charts/.)
+// Shared by the spectrum, motor and calculator screens.
 import { useEffect, useRef } from "react";
 import uPlot from "uplot";
 import "uplot/dist/uPlot.min.css";
