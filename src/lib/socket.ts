@@ -37,6 +37,13 @@ export function connectSocket(queryClient: QueryClient): () => void {
       for (const fn of listeners.get(event) ?? []) fn(payload);
     });
   }
+  // The server closes the socket when the session ends (expired, deactivated, role changed). Re-reading the
+  // session sends an ended one to Sign in; after a role change it returns the new role, whose navigation and
+  // live-update rooms differ, so connect again.
+  s.on("session:ended", (e: { reason?: string }) => {
+    void queryClient.invalidateQueries({ queryKey: rootKeys.session });
+    if (e?.reason === "role-changed") setTimeout(() => s.connect(), 500);
+  });
   // After a reconnect we may have missed events: refresh what they would have touched.
   s.io.on("reconnect", () => {
     for (const keys of Object.values(EVENT_INVALIDATIONS)) for (const key of keys) void queryClient.invalidateQueries({ queryKey: key });
