@@ -9,7 +9,8 @@ import { EmptyState } from "../../components/EmptyState.tsx";
 import type { Gateway } from "../../lib/contracts.ts";
 import { formatDateTime } from "../../lib/format.ts";
 import { gatewaySchema } from "./schemas.ts";
-import { gatewaysQueryOptions, sitesQueryOptions, useCreateGateway, useRevokeGateway } from "./api/admin.ts";
+import { gatewaysQueryOptions, useCreateGateway, useRevokeGateway } from "./api/admin.ts";
+import { sitesQueryOptions } from "../../lib/sites.ts";
 
 export function GatewaysPanel() {
   const gateways = useQuery(gatewaysQueryOptions());

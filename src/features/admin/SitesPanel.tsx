@@ -8,7 +8,8 @@ import { ErrorNote } from "../../components/Alert.tsx";
 import { PageLoading } from "../../components/Spinner.tsx";
 import type { Site } from "../../lib/contracts.ts";
 import { areaSchema, siteSchema } from "./schemas.ts";
-import { sitesQueryOptions, useAddArea, useCreateSite } from "./api/admin.ts";
+import { useAddArea, useCreateSite } from "./api/admin.ts";
+import { sitesQueryOptions } from "../../lib/sites.ts";
 
 export function SitesPanel() {
   const sites = useQuery(sitesQueryOptions());

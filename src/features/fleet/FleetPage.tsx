@@ -16,7 +16,7 @@ import { useSession } from "../../lib/session.ts";
 import { useFleet, type FleetHealth, type FleetMotor, type GradeCounts } from "./api/get-fleet.ts";
 import { GRADE_KEYS, GradeBar, GradeBarLabels, GradePatterns, GradeSwatch, LONG, SHORT } from "./components/GradeBar.tsx";
 import { LoadHistogram } from "./components/LoadHistogram.tsx";
-import { useSites } from "./api/get-sites.ts";
+import { useSites } from "../../lib/sites.ts";
 
 export default function FleetPage() {
   const [siteId, setSiteId] = useState<number | null>(null);
@@ -49,7 +49,7 @@ export default function FleetPage() {
             Site
             <Select className="!w-auto" value={siteId ?? ""} onChange={(e) => setSiteId(e.target.value ? Number(e.target.value) : null)}>
               <option value="">All sites</option>
-              {(sites.data?.items ?? f.sites).map((s) => (
+              {(sites.data ?? f.sites).map((s) => (
                 <option key={s.id} value={s.id}>
                   {s.name}
                 </option>

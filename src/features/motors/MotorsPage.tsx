@@ -10,7 +10,8 @@ import { ZoneBadge } from "../../components/ZoneBadge.tsx";
 import type { Asset } from "../../lib/contracts.ts";
 import { formatDate } from "../../lib/format.ts";
 import { GRADES } from "../../lib/grades.ts";
-import { useAssets, useSites } from "./api/get-assets.ts";
+import { useAssets } from "./api/get-assets.ts";
+import { useSites } from "../../lib/sites.ts";
 
 const EQUIPMENT = ["pump", "fan", "compressor", "conveyor", "mixer", "crusher", "blower", "mill", "other"];
 
@@ -26,7 +27,7 @@ export default function MotorsPage() {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [text]);
 
-  const site = sites.data?.items.find((s) => String(s.id) === list.filters.siteId);
+  const site = sites.data?.find((s) => String(s.id) === list.filters.siteId);
   const columns: Column<Asset>[] = [
     {
       id: "tag",
@@ -86,7 +87,7 @@ export default function MotorsPage() {
                 }}
               >
                 <option value="">All sites</option>
-                {sites.data?.items.map((s) => (
+                {sites.data?.map((s) => (
                   <option key={s.id} value={s.id}>
                     {s.name}
                   </option>

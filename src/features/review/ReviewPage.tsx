@@ -9,7 +9,7 @@ import { GradeBadge } from "../../components/GradeBadge.tsx";
 import { Page } from "../../components/Page.tsx";
 import { ZoneBadge } from "../../components/ZoneBadge.tsx";
 import { formatDateTime } from "../../lib/format.ts";
-import { useSites } from "./api/get-sites.ts";
+import { useSites } from "../../lib/sites.ts";
 import { useReview, type ReviewItem } from "./api/get-review.ts";
 import { ageLabel } from "./lib.ts";
 
@@ -103,7 +103,7 @@ export default function ReviewPage() {
               Site
               <Select value={list.filters.siteId} onChange={(e) => list.setFilter("siteId", e.target.value)}>
                 <option value="">All sites</option>
-                {sites.data?.items.map((s) => (
+                {sites.data?.map((s) => (
                   <option key={s.id} value={s.id}>
                     {s.name}
                   </option>

@@ -5,12 +5,10 @@ import { rootKeys } from "../../../lib/query.ts";
 
 export const adminKeys = {
   users: () => [...rootKeys.users, "list"] as const,
-  sites: () => [...rootKeys.sites, "list"] as const,
   gateways: () => [...rootKeys.gateways, "list"] as const,
 };
 
 export const usersQueryOptions = () => queryOptions({ queryKey: adminKeys.users(), queryFn: ({ signal }) => apiGet<{ items: User[] }>("/users", undefined, signal).then((r) => r.items) });
-export const sitesQueryOptions = () => queryOptions({ queryKey: adminKeys.sites(), queryFn: ({ signal }) => apiGet<{ items: Site[] }>("/sites", undefined, signal).then((r) => r.items) });
 export const gatewaysQueryOptions = () =>
   queryOptions({ queryKey: adminKeys.gateways(), queryFn: ({ signal }) => apiGet<{ items: Gateway[] } | Gateway[]>("/gateways", undefined, signal).then((r) => (Array.isArray(r) ? r : r.items)) });
 

@@ -11,10 +11,3 @@ export const assetsQueryOptions = (query: QueryParams) =>
   });
 export const useAssets = (query: QueryParams) => useQuery(assetsQueryOptions(query));
 
-export const sitesQueryOptions = () =>
-  queryOptions({
-    queryKey: motorsKeys.sites(),
-    queryFn: ({ signal }) => apiGet<{ items: Site[] }>("/sites", undefined, signal),
-    staleTime: 5 * 60_000,
-  });
-export const useSites = () => useQuery(sitesQueryOptions());

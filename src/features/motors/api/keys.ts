@@ -4,5 +4,4 @@ export const motorsKeys = {
   all: rootKeys.assets,
   lists: () => [...rootKeys.assets, "list"] as const,
   list: (query: Record<string, unknown>) => [...rootKeys.assets, "list", query] as const,
-  sites: () => [...rootKeys.sites, "list"] as const,
 };

@@ -3,13 +3,6 @@ import { apiGet, type Paged } from "../../../lib/api.ts";
 import type { Asset, AssetDetail, Site } from "../../../lib/contracts.ts";
 import { uploadKeys } from "./keys.ts";
 
-export const sitesQueryOptions = () =>
-  queryOptions({
-    queryKey: uploadKeys.sites(),
-    queryFn: ({ signal }) => apiGet<{ items: Site[] }>("/sites", undefined, signal).then((r) => r.items),
-    staleTime: 5 * 60_000,
-  });
-
 export const siteAssetsQueryOptions = (siteId: number) =>
   queryOptions({
     queryKey: uploadKeys.assetsOfSite(siteId),
