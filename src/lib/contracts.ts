@@ -168,6 +168,25 @@ export interface Finding {
   verdicts: Verdict[];
 }
 
+/** GET /inspections/candidates: a finding that needs action and has no open inspection yet. */
+export interface InspectionCandidate {
+  findingId: number;
+  assetId: number;
+  assetTag: string;
+  assetName: string;
+  siteId: number;
+  siteName: string;
+  areaName: string;
+  criticality: string | null;
+  kind: string;
+  level: GradeValue;
+  summary: string;
+  /** open | confirmed | remeasure */
+  status: string;
+  createdAt: string;
+  suggestedPriority: Priority;
+}
+
 export type InspectionStatus = "planned" | "in_progress" | "done" | "cancelled";
 export type Priority = "low" | "normal" | "high" | "urgent";
 

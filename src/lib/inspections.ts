@@ -1,4 +1,5 @@
 // Inspection rules shared by Plan and My work: statuses, allowed moves, priorities and their suggested due dates.
+import { computePriority } from "../../server/plan/priority.ts";
 import { z } from "zod";
 import type { InspectionStatus, Priority } from "./contracts.ts";
 import { parseGrade } from "./grades.ts";
@@ -38,25 +39,11 @@ export const PRIORITIES: { value: Priority; label: string; days: number }[] = [
   { value: "low", label: "Low", days: 42 },
 ];
 
-/** Criticality values that count as "high": A, 1, "high", "critical". */
-export function isHighCriticality(c: unknown): boolean {
-  if (c === null || c === undefined) return false;
-  const s = String(c).trim().toLowerCase();
-  return s === "a" || s === "1" || s === "high" || s === "critical";
-}
-
-/** A starting priority for a finding: by the grade (or zone) it reached, one step up for critical motors. */
+/** A starting priority for a finding: the server's priority rule (grade or zone × criticality), so both agree. */
 export function suggestPriority(finding: { kind?: string; level?: unknown; criticality?: unknown }): Priority {
-  const order: Priority[] = ["low", "normal", "high", "urgent"];
-  let idx = 0;
-  const grade = parseGrade(finding.level);
-  const zone = typeof finding.level === "string" ? finding.level.trim().toUpperCase() : "";
-  if (grade) idx = grade >= 5 ? 3 : grade === 4 ? 2 : grade === 3 ? 1 : 0;
-  else if (zone === "D") idx = 3;
-  else if (zone === "C") idx = 2;
-  else if (zone === "B") idx = 1;
-  if (isHighCriticality(finding.criticality)) idx = Math.min(3, idx + 1);
-  return order[idx];
+  const level = typeof finding.level === "string" ? finding.level.trim().toUpperCase() : "";
+  const criticality = typeof finding.criticality === "string" ? finding.criticality.trim().toLowerCase() : null;
+  return computePriority(parseGrade(level) ? { grade: level, criticality } : { zone: level, criticality });
 }
 
 /** Due date (YYYY-MM-DD, local) for a priority, counted from `from`. */

@@ -19,7 +19,7 @@ export type ServerEventName = keyof ServerEvents;
 export const EVENT_INVALIDATIONS: Record<ServerEventName, readonly QueryKey[]> = {
   "capture:status": [rootKeys.captures, rootKeys.assets, rootKeys.review, rootKeys.fleet, rootKeys.findings],
   "finding:new": [rootKeys.findings, rootKeys.review, rootKeys.fleet, rootKeys.assets],
-  "inspection:changed": [rootKeys.inspections, rootKeys.fleet],
+  "inspection:changed": [rootKeys.inspections, rootKeys.fleet, rootKeys.findings],
 };
 
 type Listener = (payload: unknown) => void;

@@ -7,15 +7,14 @@ import { Button } from "../../components/Button.tsx";
 import { Select } from "../../components/Form.tsx";
 import { GradeBadge } from "../../components/GradeBadge.tsx";
 import { ZoneBadge } from "../../components/ZoneBadge.tsx";
-import { Figure } from "../../components/Figure.tsx";
 import { InspectionStatusPill, PriorityTag } from "../../components/InspectionBits.tsx";
 import { EmptyState } from "../../components/EmptyState.tsx";
 import { apiUrl } from "../../lib/api.ts";
-import type { Finding, Inspection } from "../../lib/contracts.ts";
+import type { Finding, Inspection, InspectionCandidate } from "../../lib/contracts.ts";
 import { formatDate, formatDateTime } from "../../lib/format.ts";
 import { parseGrade } from "../../lib/grades.ts";
-import { isOverdue, STATUS_LABEL, suggestPriority } from "../../lib/inspections.ts";
-import { inspectionsQueryOptions, openFindingsQueryOptions, techniciansQueryOptions } from "./api/inspections.ts";
+import { isOverdue, STATUS_LABEL } from "../../lib/inspections.ts";
+import { candidatesQueryOptions, inspectionsQueryOptions, techniciansQueryOptions } from "./api/inspections.ts";
 import { ScheduleDialog } from "./ScheduleDialog.tsx";
 import { InspectionDialog } from "./InspectionDialog.tsx";
 import { MonthView } from "./MonthView.tsx";
@@ -113,33 +112,61 @@ export default function PlanPage() {
   );
 }
 
+/** The finding behind a candidate, in the shape the schedule form takes. */
+function candidateFinding(c: InspectionCandidate): Finding {
+  return {
+    id: c.findingId,
+    assetId: c.assetId,
+    assetTag: c.assetTag,
+    assetName: c.assetName,
+    siteId: c.siteId,
+    siteName: c.siteName,
+    kind: c.kind,
+    level: c.level,
+    previousLevel: null,
+    summary: c.summary,
+    status: c.status,
+    createdAt: c.createdAt,
+    takenAt: null,
+    captureId: null,
+    analysisId: null,
+    loadPct: null,
+    criticality: c.criticality,
+    verdicts: [],
+  };
+}
+
+const VERDICT_STATE: Record<string, string> = { open: "waiting for a verdict", confirmed: "confirmed", remeasure: "re-measure asked" };
+
 function NeedsAction({ onSchedule }: { onSchedule: (f: Finding) => void }) {
   const [page, setPage] = useState(1);
-  const q = useQuery(openFindingsQueryOptions({ page, pageSize: 10, sort: "-createdAt" }));
-  const columns: Column<Finding>[] = [
-    { id: "motor", header: "Motor", cell: (f) => (<span><Link to={`/motors/${f.assetId}`} className="num font-medium">{f.assetTag}</Link> <span className="text-ink-muted">{f.assetName}</span></span>) },
-    { id: "site", header: "Site", cell: (f) => f.siteName, hideBelow: "md" },
-    { id: "level", header: "Now", cell: (f) => (parseGrade(f.level) ? <GradeBadge compact grade={f.level} /> : <ZoneBadge zone={f.level} withWord />) },
-    { id: "summary", header: "Finding", cell: (f) => <span className="line-clamp-2">{f.summary}</span> },
-    { id: "load", header: "Load", numeric: true, cell: (f) => <Figure value={f.loadPct} unit="%" />, hideBelow: "lg" },
-    { id: "raised", header: "Raised", cell: (f) => <span className="num text-caption text-ink-muted">{formatDateTime(f.createdAt)}</span>, hideBelow: "md" },
-    { id: "suggest", header: "Suggested", cell: (f) => <PriorityTag priority={suggestPriority(f)} /> },
-    { id: "act", header: <span className="sr-only">Action</span>, cell: (f) => <Button size="sm" variant="primary" onClick={() => onSchedule(f)}>Schedule</Button> },
+  const q = useQuery(candidatesQueryOptions());
+  const pageSize = 10;
+  const rows = q.data?.slice((page - 1) * pageSize, page * pageSize);
+  const columns: Column<InspectionCandidate>[] = [
+    { id: "motor", header: "Motor", cell: (c) => (<span><Link to={`/motors/${c.assetId}`} className="num font-medium">{c.assetTag}</Link> <span className="text-ink-muted">{c.assetName}</span></span>) },
+    { id: "site", header: "Site", cell: (c) => c.siteName, hideBelow: "md" },
+    { id: "level", header: "Now", cell: (c) => (parseGrade(c.level) ? <GradeBadge compact grade={c.level} /> : <ZoneBadge zone={c.level} withWord />) },
+    { id: "summary", header: "Finding", cell: (c) => <span className="line-clamp-2">{c.summary}</span> },
+    { id: "state", header: "Verdict", cell: (c) => <span className="text-caption text-ink-muted">{VERDICT_STATE[c.status] ?? c.status}</span>, hideBelow: "lg" },
+    { id: "raised", header: "Raised", cell: (c) => <span className="num text-caption text-ink-muted">{formatDateTime(c.createdAt)}</span>, hideBelow: "md" },
+    { id: "suggest", header: "Suggested", cell: (c) => <PriorityTag priority={c.suggestedPriority} /> },
+    { id: "act", header: <span className="sr-only">Action</span>, cell: (c) => <Button size="sm" variant="primary" onClick={() => onSchedule(candidateFinding(c))}>Schedule</Button> },
   ];
   return (
     <Section title="Needs action">
       <DataTable
-        caption="Open findings"
+        caption="Findings without an open inspection"
         columns={columns}
-        rows={q.data?.items}
-        rowKey={(f) => f.id}
-        total={q.data?.total}
+        rows={rows}
+        rowKey={(c) => c.findingId}
+        total={q.data?.length}
         page={page}
-        pageSize={10}
+        pageSize={pageSize}
         onPageChange={setPage}
         loading={q.isPending}
         error={q.error}
-        empty={<EmptyState title="No open findings">When a motor's rotor grade or vibration zone gets worse, the finding appears here.</EmptyState>}
+        empty={<EmptyState title="Nothing needs action">A finding appears here when a motor's rotor grade or vibration zone gets worse, until an inspection is planned for it.</EmptyState>}
       />
     </Section>
   );

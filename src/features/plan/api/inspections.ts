@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQueryClient } from "@tanstack/react-query";
 import { api, apiGet, type Paged, type QueryParams } from "../../../lib/api.ts";
-import type { Asset, Finding, Inspection, Person } from "../../../lib/contracts.ts";
+import type { Asset, Finding, Inspection, InspectionCandidate, Person } from "../../../lib/contracts.ts";
 import { rootKeys } from "../../../lib/query.ts";
 import type { ScheduleInput } from "../../../lib/inspections.ts";
 import { planKeys } from "./keys.ts";
@@ -18,11 +18,11 @@ export const inspectionDetailQueryOptions = (id: number) =>
     queryFn: ({ signal }) => apiGet<Inspection>(`/inspections/${id}`, undefined, signal),
   });
 
-export const openFindingsQueryOptions = (filters: QueryParams) =>
+/** Findings that need action and have no open inspection yet (open, confirmed or to re-measure), most urgent first. */
+export const candidatesQueryOptions = () =>
   queryOptions({
-    queryKey: planKeys.openFindings(filters),
-    queryFn: ({ signal }) => apiGet<Paged<Finding>>("/findings", { status: "open", ...filters }, signal),
-    placeholderData: keepPreviousData,
+    queryKey: planKeys.candidates(),
+    queryFn: ({ signal }) => apiGet<{ items: InspectionCandidate[] }>("/inspections/candidates", undefined, signal).then((r) => r.items),
   });
 
 export const techniciansQueryOptions = () =>
