@@ -13,8 +13,12 @@ export interface AnalysisTaskInput {
   nameplate: Nameplate;
 }
 
+/** With BARHOUND_TIMING=1 the output carries `timing` (ms per step), for bench/pipeline.ts via workers/worker.ts. */
+const TIMING = process.env.BARHOUND_TIMING === "1";
+
 /** Parse errors come back as a value: an Error's class does not survive the trip between threads. */
 export default function analysisTask(input: AnalysisTaskInput): AnalysisTaskOutput {
+  const t0 = performance.now();
   let capture;
   try {
     capture = parseCapture(input.bytes, { fileName: input.fileName, sampleRate: input.sampleRate });
@@ -22,7 +26,9 @@ export default function analysisTask(input: AnalysisTaskInput): AnalysisTaskOutp
     if (err instanceof CaptureParseError) return { parseError: { code: err.code, message: err.message } };
     throw err;
   }
+  const t1 = performance.now();
   const result = analyzeCapture(capture, input.nameplate, {});
+  const t2 = performance.now();
   // The viewer's full-range spectrum of each channel, stored next to the capture by the job (server/captures/analysis-job.ts).
   // A channel whose spectrum cannot be computed is left out: the viewer computes it on demand.
   const spectra: EncodedSpectrum[] = [];
@@ -33,5 +39,7 @@ export default function analysisTask(input: AnalysisTaskInput): AnalysisTaskOutp
       /* left to the viewer */
     }
   }
-  return { engineVersion: ENGINE_VERSION, meta: summariseCapture(capture), result: toPlainJson(result) as AnalysisResult, spectra };
+  const out: AnalysisTaskOutput = { engineVersion: ENGINE_VERSION, meta: summariseCapture(capture), result: toPlainJson(result) as AnalysisResult, spectra };
+  if (TIMING) Object.assign(out, { timing: { parseMs: t1 - t0, analyzeMs: t2 - t1, spectraMs: performance.now() - t2 } });
+  return out;
 }

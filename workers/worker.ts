@@ -12,6 +12,8 @@ import { runAnalysisJob } from "../server/captures/analysis-job.ts";
 import { sweepStuckCaptures } from "../server/captures/stuck-sweep.ts";
 import type { AnalysisTaskInput } from "./analysis-task.ts";
 import type { AnalysisTaskOutput } from "../server/captures/engine-io.ts";
+import { synthCapture } from "../src/engine/synth.ts";
+import { writeCsv } from "../src/engine/parse/index.ts";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 
@@ -34,6 +36,9 @@ async function main() {
     maxThreads: concurrency,
     idleTimeout: 60_000,
   });
+  // Warm every thread before taking jobs: loading the engine through tsx and JIT-compiling it takes ~0.5–1 s per
+  // thread, which the first captures would otherwise wait out. One short synthetic capture per thread, at once.
+  await warmUp(pool, concurrency);
   const delayMs = config.env === "test" ? Number(process.env.BARHOUND_TEST_ANALYSIS_DELAY_MS) || 0 : 0;
   const idleMs = Number(process.env.BARHOUND_WORKER_IDLE_MS) || 250;
   const deps = {
@@ -47,6 +52,9 @@ async function main() {
       return pool.run({ ...input, bytes: own }, { transferList: [own.buffer as ArrayBuffer] });
     },
   };
+  // BARHOUND_TIMING=1: one "[timing] {json}" line per job on stdout (epoch ms and the thread's own step times),
+  // read by bench/pipeline.ts to split upload-to-analysed into queue wait, job I/O and CPU.
+  const timing = process.env.BARHOUND_TIMING === "1";
 
   // One fetch loop per thread. pg-boss's own work() loop sleeps a full polling interval between jobs even
   // when the queue is full; fetching ourselves keeps the threads busy and the latency low.
@@ -54,6 +62,7 @@ async function main() {
   const loops = Array.from({ length: concurrency }, async () => {
     while (!stopping) {
       let jobs;
+      const fetchStart = Date.now();
       try {
         jobs = await queue.boss.fetch<AnalysisJobData>(ANALYSIS_QUEUE, { batchSize: 1, includeMetadata: true });
       } catch (err) {
@@ -66,9 +75,28 @@ async function main() {
         continue;
       }
       const job = jobs[0];
+      const t = timing ? { captureId: job.data.captureId, fetchStart, fetchedAt: Date.now(), taskStart: 0, taskEnd: 0, jobEnd: 0, completedAt: 0, step: null as unknown } : null;
+      const jobDeps = t
+        ? {
+            ...deps,
+            runTask: async (input: AnalysisTaskInput) => {
+              t.taskStart = Date.now();
+              const out = await deps.runTask(input);
+              t.taskEnd = Date.now();
+              t.step = (out as { timing?: unknown }).timing ?? null;
+              delete (out as { timing?: unknown }).timing;
+              return out;
+            },
+          }
+        : deps;
       try {
-        const outcome = await runAnalysisJob(deps, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+        const outcome = await runAnalysisJob(jobDeps, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+        if (t) t.jobEnd = Date.now();
         await queue.boss.complete(ANALYSIS_QUEUE, job.id, { outcome });
+        if (t) {
+          t.completedAt = Date.now();
+          console.log(`[timing] ${JSON.stringify(t)}`);
+        }
       } catch (err) {
         console.error(`[worker] capture ${job.data.captureId} attempt ${job.retryCount + 1} failed:`, (err as Error).message);
         await queue.boss.fail(ANALYSIS_QUEUE, job.id, { message: (err as Error).message }).catch(() => {});
@@ -101,6 +129,17 @@ async function main() {
   process.on("SIGINT", stop);
   process.on("SIGTERM", stop);
   console.log(`worker ready (concurrency ${concurrency}, blob ${blob.driver})`);
+}
+
+async function warmUp(pool: Piscina<AnalysisTaskInput, AnalysisTaskOutput>, threads: number): Promise<void> {
+  try {
+    const { capture } = synthCapture({ poles: 4, slip: 0.02, sampleRate: 5000, durationS: 4, phases: 3, brokenBars: 1, seed: 1 });
+    const csv = new TextEncoder().encode(writeCsv(capture, { timeColumn: false, digits: 6 }));
+    const nameplate = { poles: 4, ratedRpm: 1470, ratedHz: 50, rotorBars: 28 };
+    await Promise.all(Array.from({ length: threads }, () => pool.run({ bytes: csv.slice(), fileName: "warm-up.csv", nameplate })));
+  } catch (err) {
+    console.error("[worker] warm-up failed (continuing):", (err as Error).message);
+  }
 }
 
 function sleep(ms: number) {

@@ -27,25 +27,35 @@ export function channelStats(x: ArrayLike<number>): ChannelStats {
     if (v > max) max = v;
   }
   const mean = n ? sum / n : 0;
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += (x[i] - mean) ** 2;
-  const rms = n ? Math.sqrt(ss / n) : 0;
-  // Clipping: flat runs at the rails. A clipped ADC or amplifier returns the same value sample after sample;
-  // an unclipped sine oversampled many times only lingers near its peak without repeating it exactly.
+  // Second pass: the spread about the mean, and clipping — flat runs at the rails. A clipped ADC or amplifier
+  // returns the same value sample after sample; an unclipped sine oversampled many times only lingers near its
+  // peak without repeating it exactly.
   const range = max - min;
   const tol = 1e-4 * range;
+  let ss = 0;
   let inRuns = 0;
   let longest = 0;
   let run = 1;
-  for (let i = 1; i <= n; i++) {
-    const same = i < n && x[i] === x[i - 1] && (Math.abs(x[i] - max) <= tol || Math.abs(x[i] - min) <= tol);
-    if (same) run++;
+  let prev = n ? x[0] : 0;
+  if (n) ss += (prev - mean) * (prev - mean);
+  for (let i = 1; i < n; i++) {
+    const v = x[i];
+    const dv = v - mean;
+    ss += dv * dv;
+    if (v === prev && (Math.abs(v - max) <= tol || Math.abs(v - min) <= tol)) run++;
     else {
       if (run >= 3) inRuns += run;
-      longest = Math.max(longest, run);
+      if (run > longest) longest = run;
       run = 1;
     }
+    prev = v;
   }
+  if (n) {
+    // the run still open at the end
+    if (run >= 3) inRuns += run;
+    if (run > longest) longest = run;
+  }
+  const rms = n ? Math.sqrt(ss / n) : 0;
   const peak = Math.max(Math.abs(max - mean), Math.abs(min - mean));
   return { mean, rms, min, max, railFraction: n ? inRuns / n : 0, longestRailRun: longest, crestFactor: rms ? peak / rms : 0 };
 }

@@ -1,6 +1,6 @@
 // Amplitude spectra in engineering units, peak search with sub-bin interpolation, and the display spectrum.
 // Amplitudes are "peak amplitude of a bin-centred tone": amp_k = 2|X_k|/Σw, so a tone A·cos(2πft) reads A.
-import { realFft, complexFft, nextPow2 } from "./fft.ts";
+import { complexFftScratch, complexInputScratch, realInputScratch, transformRealScratch, nextPow2 } from "./fft.ts";
 import { makeWindow, enbwBins, type WindowName } from "./windows.ts";
 import { decimateReal, zoomComplex, type Decimated } from "./zoom.ts";
 import { sinc, quadraticDb } from "./interpolate.ts";
@@ -30,34 +30,62 @@ export interface SpectrumOptions {
   segment?: number;
 }
 
+// Σw and the ENBW of the (cached, read-only) windows, computed once per window array.
+const windowSumCache = new WeakMap<Float64Array, { sum: number; enbw: number }>();
+function windowSums(w: Float64Array): { sum: number; enbw: number } {
+  let v = windowSumCache.get(w);
+  if (!v) {
+    let sum = 0;
+    for (let i = 0; i < w.length; i++) sum += w[i];
+    v = { sum, enbw: enbwBins(w) };
+    windowSumCache.set(w, v);
+  }
+  return v;
+}
+
 /** One-sided amplitude spectrum of a real signal (mean removed). */
 export function realSpectrum(x: ArrayLike<number>, fs: number, opts: SpectrumOptions = {}): LineSpectrum {
   const windowName = opts.window ?? "hann";
   const seg = Math.min(opts.segment ?? x.length, x.length);
   const size = nextPow2(Math.ceil(seg * (opts.pad ?? 1)));
   const w = makeWindow(windowName, seg);
-  let wsum = 0;
-  for (let i = 0; i < seg; i++) wsum += w[i];
+  const { sum: wsum, enbw } = windowSums(w);
   const hop = Math.max(1, Math.floor(seg / 2));
   const nb = size / 2 + 1;
+  const scale = 2 / wsum;
+  if (seg === x.length) {
+    // One segment (the usual case): amplitudes straight from the transform, no power accumulator.
+    const buf = realInputScratch(size);
+    let mu = 0;
+    for (let i = 0; i < seg; i++) mu += x[i];
+    mu /= seg;
+    for (let i = 0; i < seg; i++) buf[i] = (x[i] - mu) * w[i];
+    buf.fill(0, seg);
+    const X = transformRealScratch(buf);
+    const amp = new Float64Array(nb);
+    for (let k = 0; k < nb; k++) amp[k] = Math.sqrt(X[2 * k] * X[2 * k] + X[2 * k + 1] * X[2 * k + 1]) * scale;
+    amp[0] /= 2; // DC is not doubled in a one-sided spectrum
+    return { hz0: 0, df: fs / size, amp, rho: size / seg, window: windowName, seconds: seg / fs, enbw, averages: 1 };
+  }
   const power = new Float64Array(nb);
-  const buf = new Float64Array(seg);
+  // mean-removed, windowed segment straight into the transform's scratch input (zero-padded tail)
+  const buf = realInputScratch(size);
+  buf.fill(0, seg);
   let averages = 0;
   for (let start = 0; start + seg <= x.length; start += hop) {
     let mu = 0;
     for (let i = 0; i < seg; i++) mu += x[start + i];
     mu /= seg;
-    for (let i = 0; i < seg; i++) buf[i] = x[start + i] - mu;
-    const X = realFft(buf, { size, window: w });
+    for (let i = 0; i < seg; i++) buf[i] = (x[start + i] - mu) * w[i];
+    const X = transformRealScratch(buf);
     for (let k = 0; k < nb; k++) power[k] += X[2 * k] * X[2 * k] + X[2 * k + 1] * X[2 * k + 1];
     averages++;
     if (seg === x.length) break;
   }
   const amp = new Float64Array(nb);
-  const scale = 2 / wsum;
   for (let k = 0; k < nb; k++) amp[k] = Math.sqrt(power[k] / averages) * scale;
   amp[0] /= 2; // DC is not doubled in a one-sided spectrum
-  return { hz0: 0, df: fs / size, amp, rho: size / seg, window: windowName, seconds: seg / fs, enbw: enbwBins(w), averages };
+  return { hz0: 0, df: fs / size, amp, rho: size / seg, window: windowName, seconds: seg / fs, enbw, averages };
 }
 
 /** Spectrum of a complex zoomed signal (interleaved), fft-shifted so bins run from centre − fs/2 upward. */
@@ -66,14 +94,14 @@ export function zoomSpectrum(z: Decimated, opts: { window?: WindowName; pad?: nu
   const n = z.data.length / 2;
   const size = nextPow2(Math.ceil(n * (opts.pad ?? 1)));
   const w = makeWindow(windowName, n);
-  const buf = new Float64Array(2 * size);
+  const buf = complexInputScratch(size);
   let wsum = 0;
   for (let i = 0; i < n; i++) {
     buf[2 * i] = z.data[2 * i] * w[i];
     buf[2 * i + 1] = z.data[2 * i + 1] * w[i];
     wsum += w[i];
   }
-  const X = complexFft(buf);
+  const X = complexFftScratch(buf);
   const amp = new Float64Array(size);
   const half = size / 2;
   const scale = 2 / wsum;
@@ -82,7 +110,7 @@ export function zoomSpectrum(z: Decimated, opts: { window?: WindowName; pad?: nu
     amp[k] = Math.hypot(X[2 * src], X[2 * src + 1]) * scale;
   }
   const df = z.sampleRate / size;
-  return { hz0: z.centerHz - half * df, df, amp, rho: size / n, window: windowName, seconds: n / z.sampleRate, enbw: enbwBins(w), averages: 1 };
+  return { hz0: z.centerHz - half * df, df, amp, rho: size / n, window: windowName, seconds: n / z.sampleRate, enbw: windowSums(w).enbw, averages: 1 };
 }
 
 export function binOf(spec: LineSpectrum, hz: number): number {
@@ -133,11 +161,44 @@ export interface Peak {
   searchCells: number;
 }
 
+/** Upper median (the element at index n >> 1 of the sorted values), by selection in O(n); reorders `values`. */
 function median(values: Float64Array): number {
-  if (values.length === 0) return 0;
-  const sorted = Float64Array.from(values).sort();
-  return sorted[sorted.length >> 1];
+  const n = values.length;
+  if (n === 0) return 0;
+  const want = n >> 1;
+  let lo = 0;
+  let hi = n - 1;
+  while (hi > lo) {
+    // Hoare partition around the median of three
+    const mid = (lo + hi) >> 1;
+    let a = values[lo], b = values[mid], c = values[hi];
+    if (a > b) { const t = a; a = b; b = t; }
+    if (b > c) { b = c; }
+    if (a > b) { b = a; }
+    const pivot = b;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (values[i] < pivot) i++;
+      while (values[j] > pivot) j--;
+      if (i <= j) {
+        const t = values[i];
+        values[i] = values[j];
+        values[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (want <= j) hi = j;
+    else if (want >= i) lo = i;
+    else return values[want];
+  }
+  return values[want];
 }
+
+// Scratch for findPeak's floor values and exclusion mask (grown as needed; findPeak does not re-enter).
+let floorScratch = new Float64Array(4096);
+let maskScratch = new Uint8Array(4096);
 
 /** Interpolated amplitude and frequency of the peak at integer bin k. */
 export function interpolateAt(spec: LineSpectrum, k: number): { hz: number; amp: number } {
@@ -162,37 +223,53 @@ export function interpolateAt(spec: LineSpectrum, k: number): { hz: number; amp:
  */
 export function findPeak(spec: LineSpectrum, loHz: number, hiHz: number, opts: { floorMarginHz?: number; exclude?: Array<[number, number]> } = {}): Peak | null {
   const n = spec.amp.length;
+  const amp = spec.amp;
   const k0 = Math.max(1, Math.ceil(binOf(spec, loHz)));
   const k1 = Math.min(n - 2, Math.floor(binOf(spec, hiHz)));
   if (k1 < k0) return null;
-  const excluded = (k: number) => {
-    if (!opts.exclude) return false;
-    const hz = hzOf(spec, k);
-    return opts.exclude.some(([a, b]) => hz >= a && hz <= b);
-  };
+  const resBins = spec.rho; // bins per 1/T
+  const margin = opts.floorMarginHz ?? Math.max(hiHz - loHz, 20 * resBins * spec.df);
+  const f0 = Math.max(0, Math.floor(binOf(spec, loHz - margin)));
+  const f1 = Math.min(n - 1, Math.ceil(binOf(spec, hiHz + margin)));
+  // Exclusion mask over the bins [m0, m1] that either loop visits: 1 where hzOf(k) lies in an excluded zone. Only the
+  // bins around each zone are tested, with the same hzOf comparison a per-bin test would make (hzOf is monotone).
+  const m0 = Math.min(f0, k0);
+  const m1 = Math.max(f1, k1);
+  const span = m1 - m0 + 1;
+  const ex = opts.exclude;
+  if (ex && ex.length) {
+    if (maskScratch.length < span) maskScratch = new Uint8Array(span * 2);
+    maskScratch.fill(0, 0, span);
+    for (const [a, b] of ex) {
+      const lo = Math.max(m0, Math.floor(binOf(spec, a)) - 1);
+      const hi = Math.min(m1, Math.ceil(binOf(spec, b)) + 1);
+      for (let k = lo; k <= hi; k++) {
+        const hz = hzOf(spec, k);
+        if (hz >= a && hz <= b) maskScratch[k - m0] = 1;
+      }
+    }
+  }
+  const mask = ex && ex.length ? maskScratch : null;
   let best = -1;
   let bestAmp = -Infinity;
   for (let k = k0; k <= k1; k++) {
-    if (excluded(k)) continue;
-    const v = spec.amp[k];
+    if (mask && mask[k - m0]) continue;
+    const v = amp[k];
     if (v > bestAmp) {
       bestAmp = v;
       best = k;
     }
   }
   if (best < 0) return null;
-  const isLocalMax = spec.amp[best] >= spec.amp[best - 1] && spec.amp[best] >= spec.amp[best + 1];
-  const resBins = spec.rho; // bins per 1/T
-  const margin = opts.floorMarginHz ?? Math.max(hiHz - loHz, 20 * resBins * spec.df);
-  const f0 = Math.max(0, Math.floor(binOf(spec, loHz - margin)));
-  const f1 = Math.min(n - 1, Math.ceil(binOf(spec, hiHz + margin)));
+  const isLocalMax = amp[best] >= amp[best - 1] && amp[best] >= amp[best + 1];
   const ring = Math.ceil(3 * resBins); // skip the peak's own main lobe
-  const vals: number[] = [];
-  for (let k = f0; k <= f1; k++) if (Math.abs(k - best) > ring && !excluded(k)) vals.push(spec.amp[k]);
-  const floorAmp = median(Float64Array.from(vals)) || 1e-300;
-  const { hz, amp } = isLocalMax ? interpolateAt(spec, best) : { hz: hzOf(spec, best), amp: spec.amp[best] };
+  if (floorScratch.length < span) floorScratch = new Float64Array(span * 2);
+  let count = 0;
+  for (let k = f0; k <= f1; k++) if (Math.abs(k - best) > ring && !(mask && mask[k - m0])) floorScratch[count++] = amp[k];
+  const floorAmp = median(floorScratch.subarray(0, count)) || 1e-300;
+  const { hz, amp: pa } = isLocalMax ? interpolateAt(spec, best) : { hz: hzOf(spec, best), amp: amp[best] };
   const searchCells = Math.max(1, (k1 - k0 + 1) / resBins);
-  return { hz, amp, bin: best, floorAmp, prominenceDb: 20 * Math.log10(amp / floorAmp), isLocalMax, searchCells };
+  return { hz, amp: pa, bin: best, floorAmp, prominenceDb: 20 * Math.log10(pa / floorAmp), isLocalMax, searchCells };
 }
 
 /**

@@ -2,7 +2,7 @@
 // (drive-fed motors are not at 50/60 Hz), refined by Hann-kernel interpolation on the full-length low band, plus
 // sub-block estimates to judge whether the supply stayed steady during the capture.
 import { realSpectrum, findPeak, type LineSpectrum } from "./spectrum.ts";
-import { realFft, nextPow2 } from "./fft.ts";
+import { realFftScratch, nextPow2 } from "./fft.ts";
 import { hann } from "./windows.ts";
 import { decimateReal, type Decimated } from "./zoom.ts";
 
@@ -132,7 +132,7 @@ function subBlockEstimates(dec: Decimated, hz: number): { blocks: number[]; bloc
   const out: number[] = [];
   for (let b = 0; b < count; b++) {
     const seg = dec.data.subarray(b * len, (b + 1) * len);
-    const X = realFft(seg, { size, window: w });
+    const X = realFftScratch(seg, size, w);
     const nb = size / 2 + 1;
     const amp = new Float64Array(nb);
     for (let k = 0; k < nb; k++) amp[k] = Math.hypot(X[2 * k], X[2 * k + 1]);
@@ -151,23 +151,27 @@ export function subtractTone(data: Float64Array, fs: number, hz: number): Float6
   const n = data.length;
   const w = hann(n);
   const step = (2 * Math.PI * hz) / fs;
+  // cos/sin of each sample's phase once, for the fit and the subtraction (the same values both times)
+  const c = new Float64Array(n);
+  const sn = new Float64Array(n);
   let re = 0;
   let im = 0;
   let wsum = 0;
   for (let i = 0; i < n; i++) {
     const ph = step * i;
+    const ci = Math.cos(ph);
+    const si = Math.sin(ph);
+    c[i] = ci;
+    sn[i] = si;
     const v = data[i] * w[i];
-    re += v * Math.cos(ph);
-    im -= v * Math.sin(ph);
+    re += v * ci;
+    im -= v * si;
     wsum += w[i];
   }
   // X ≈ (A/2)e^{jφ}Σw  →  A e^{jφ} = 2X/Σw
   const ar = (2 * re) / wsum;
   const ai = (2 * im) / wsum;
-  const out = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const ph = step * i;
-    out[i] = data[i] - (ar * Math.cos(ph) - ai * Math.sin(ph));
-  }
+  const out = c; // overwritten in place: out[i] needs only c[i] and sn[i]
+  for (let i = 0; i < n; i++) out[i] = data[i] - (ar * c[i] - ai * sn[i]);
   return out;
 }
