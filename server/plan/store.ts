@@ -2,14 +2,11 @@ import type { Knex } from "knex";
 import { z } from "zod";
 import { PRIORITIES, PRIORITY_RANK } from "./priority.ts";
 import { OPEN_STATUSES, STATUSES } from "./workflow.ts";
+import { isoDate } from "../../src/shared/schemas/inspections.ts";
 
 // Reading inspections: the one joined query every list, export and detail uses, its filters and sort,
 // and the row → API shape mapping. Dates of the `date` column are read as text so no time zone shifts them.
 
-const isoDate = z
-  .string()
-  .regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date like 2026-12-24.")
-  .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), "Not a calendar date.");
 export { isoDate };
 
 const flag = z

@@ -1,9 +1,11 @@
 import { conflict } from "../errors.ts";
+import { INSPECTION_STATUSES } from "../../src/shared/schemas/inspections.ts";
 
 // The inspection status workflow: planned → in_progress → done, and planned / in_progress → cancelled.
 // done and cancelled are final: a finished inspection is history; new work is a new inspection.
 
-export const STATUSES = ["planned", "in_progress", "done", "cancelled"] as const;
+/** The list lives with the request schemas (src/shared/schemas/inspections.ts), so the forms and the API agree. */
+export const STATUSES = INSPECTION_STATUSES;
 export type InspectionStatus = (typeof STATUSES)[number];
 
 export const STATUS_LABELS: Record<InspectionStatus, string> = {

@@ -1,4 +1,3 @@
-import { z } from "zod";
 import { rateLimit } from "express-rate-limit";
 import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
@@ -7,11 +6,7 @@ import { checkPassword, cookieOptions, hashPassword, SESSION_COOKIE, signSession
 import { permissionsOf, isRole } from "../permissions.ts";
 import { audit } from "../audit.ts";
 import { createUserToken, findUsableToken } from "../tokens.ts";
-
-const loginBody = z.object({ email: z.email("Enter a valid e-mail address."), password: z.string().min(1, "Enter your password.") });
-const forgotBody = z.object({ email: z.email("Enter a valid e-mail address.") });
-export const passwordRule = z.string().min(10, "Use at least 10 characters.").max(200, "Use at most 200 characters.");
-const resetBody = z.object({ token: z.string().min(10, "The link is incomplete."), password: passwordRule });
+import { forgotBody, loginBody, setPasswordBody } from "../../src/shared/schemas/auth.ts";
 
 export function authRoutes(ctx: AppContext) {
   const { db, config, mailer } = ctx;
@@ -78,7 +73,7 @@ export function authRoutes(ctx: AppContext) {
 
   // Completes both an invitation and a reset: sets the password, uses the token up.
   r.post("/auth/set-password", "public", async (req, res) => {
-    const body = parseOr400(resetBody, req.body);
+    const body = parseOr400(setPasswordBody, req.body);
     const found = await findUsableToken(db, body.token);
     if ("problem" in found) throw badRequest(found.problem, { token: found.problem });
     const hash = await hashPassword(body.password);

@@ -5,6 +5,7 @@ import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
 import { notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
+import { verdictBody } from "../../src/shared/schemas/findings.ts";
 import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
 
 const FINDING_STATUSES = ["open", "confirmed", "dismissed", "remeasure"] as const;
@@ -92,14 +93,7 @@ export function findingRoutes(ctx: AppContext) {
 
   r.post("/findings/:id/verdict", "verdicts.write", async (req, res) => {
     const id = idParam(req.params.id, "finding");
-    const body = parseOr400(
-      z.object({
-        verdict: z.enum(["confirmed", "dismissed", "remeasure"], { message: "confirmed, dismissed or remeasure" }),
-        note: z.string().trim().max(4000, "At most 4000 characters").optional().default(""),
-      }),
-      req.body,
-      "Invalid verdict",
-    );
+    const body = parseOr400(verdictBody, req.body, "Invalid verdict");
     await db.transaction(async (trx) => {
       const f = await trx("findings").where({ id }).forUpdate().first();
       if (!f) throw notFound("No such finding.");

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { gatewayBody } from "../../src/shared/schemas/gateways.ts";
 import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
 import { badRequest, notFound, parseOr400 } from "../errors.ts";
@@ -7,10 +8,6 @@ import { createGatewayToken } from "../gateway/tokens.ts";
 
 // Admin: site gateways and their tokens. The token is returned once, at creation; only its sha256 is kept.
 
-const createBody = z.object({
-  name: z.string().trim().min(1, "Give the gateway a name, e.g. where it is mounted.").max(200),
-  siteId: z.number({ message: "Choose the site the gateway is on." }).int().positive(),
-});
 const idParam = z.coerce.number().int().positive();
 const SORTS = { name: "g.name", createdAt: "g.created_at", lastSeenAt: "g.last_seen_at", siteName: "s.name" } as const;
 const listQuery = z.object({
@@ -67,7 +64,7 @@ export function gatewayRoutes(ctx: AppContext) {
   });
 
   r.post("/gateways", "gateways.manage", async (req, res) => {
-    const body = parseOr400(createBody, req.body);
+    const body = parseOr400(gatewayBody, req.body);
     const site = await db("sites").where({ id: body.siteId }).first("id");
     if (!site) throw badRequest("Invalid request", { siteId: `There is no site with id ${body.siteId}.` });
     const { token, prefix, hash } = createGatewayToken();

@@ -2,48 +2,26 @@ import { z } from "zod";
 import type { Knex } from "knex";
 import type { AppContext } from "../context.ts";
 import { guardedRouter, type SessionUser } from "../http.ts";
-import { badRequest, conflict, forbidden, notFound, parseOr400, HttpError } from "../errors.ts";
+import { badRequest, conflict, forbidden, notFound, parseOr400, HttpError, zodFields } from "../errors.ts";
 import { can } from "../permissions.ts";
 import { audit } from "../audit.ts";
-import { PRIORITIES, computePriority, conditionClass } from "../plan/priority.ts";
-import { OPEN_STATUSES, STATUSES, TECHNICIAN_TARGETS, assertTransition, type InspectionStatus } from "../plan/workflow.ts";
+import { computePriority, conditionClass } from "../plan/priority.ts";
+import { OPEN_STATUSES, TECHNICIAN_TARGETS, assertTransition, type InspectionStatus } from "../plan/workflow.ts";
 import { applyFilters, applySort, baseQuery, filterQuery, findInspection, isoDate, latestAnalysis, listQuery, toInspection, type Inspection, type InspectionRow } from "../plan/store.ts";
 import { mailInspection, calendarDomain, icsInspection } from "../plan/notify.ts";
 import { buildCalendar } from "../plan/ics.ts";
 import { toCsv } from "../plan/csv.ts";
+import { completeBody, inspectionPatchBody, isPastDueDate, PAST_DUE_DATE, scheduleBody, type InspectionPatchBody } from "../../src/shared/schemas/inspections.ts";
 import { attachmentKey, attachmentStore, attachmentUpload, cleanFileName, sniffAttachment } from "../plan/attachments.ts";
 
 // The inspection plan: planners turn findings into inspections, technicians work them, everyone reads them.
 
 const idParam = z.coerce.number().int().positive();
-const OUTCOMES = ["fault_confirmed", "no_fault_found", "repaired", "remeasure", "other"] as const;
 /** Who can hold an inspection: the roles that may work one. */
 const ASSIGNABLE_ROLES = ["technician", "planner"];
 
-const createBody = z.object({
-  assetId: z.number().int().positive(),
-  findingId: z.number().int().positive().nullish(),
-  title: z.string().trim().min(1, "Enter a title.").max(200),
-  instructions: z.string().trim().max(10_000).nullish(),
-  dueDate: isoDate,
-  assigneeId: z.number().int().positive(),
-  priority: z.enum(PRIORITIES, { message: `Priority must be one of ${PRIORITIES.join(", ")}.` }).nullish(),
-});
-
-const patchBody = z
-  .object({
-    title: z.string().trim().min(1).max(200).optional(),
-    dueDate: isoDate.optional(),
-    assigneeId: z.number().int().positive().optional(),
-    priority: z.enum(PRIORITIES, { message: `Priority must be one of ${PRIORITIES.join(", ")}.` }).optional(),
-    instructions: z.string().trim().max(10_000).nullable().optional(),
-    status: z.enum(STATUSES, { message: `Status must be one of ${STATUSES.join(", ")}.` }).optional(),
-    note: z.string().trim().max(2000).optional(),
-    completionNote: z.string().trim().min(1, "Say what was found and done.").max(10_000).optional(),
-    outcome: z.enum(OUTCOMES, { message: `Outcome must be one of ${OUTCOMES.join(", ")}.` }).optional(),
-  })
-  .strict();
-type PatchBody = z.infer<typeof patchBody>;
+// Request bodies: src/shared/schemas/inspections.ts (the Plan and My work forms use the same rules).
+type PatchBody = InspectionPatchBody;
 /** Fields only a planner may change. */
 const PLANNER_FIELDS = ["title", "dueDate", "assigneeId", "priority", "instructions"] as const;
 
@@ -214,7 +192,7 @@ export function inspectionRoutes(ctx: AppContext) {
   // --- planning ------------------------------------------------------------------------------------------
 
   r.post("/inspections", "inspections.plan", async (req, res) => {
-    const body = parseOr400(createBody, req.body);
+    const body = parseOr400(scheduleBody, req.body);
     const asset = await db("assets").where({ id: body.assetId }).first("id", "criticality");
     if (!asset) throw badRequest("Invalid inspection", { assetId: "No such motor." });
     let finding: { id: number; asset_id: number; kind: string; level: string } | undefined;
@@ -267,7 +245,7 @@ export function inspectionRoutes(ctx: AppContext) {
 
   r.patch("/inspections/:id", "inspections.work", async (req, res) => {
     const id = parseOr400(idParam, req.params.id);
-    const body = parseOr400(patchBody, req.body);
+    const body = parseOr400(inspectionPatchBody, req.body);
     if (Object.keys(body).length === 0) throw badRequest("Nothing to change.");
     const user = req.user!;
     const planner = can(user.role, "inspections.plan");
@@ -288,6 +266,8 @@ export function inspectionRoutes(ctx: AppContext) {
       let rescheduled = false;
       let reassigned: { from: number | null; to: { id: number; name: string; email: string } } | null = null;
       if (body.dueDate !== undefined && body.dueDate !== dueBefore) {
+        // Moving it into the past is refused as on scheduling; an unchanged (overdue) date is fine.
+        if (isPastDueDate(body.dueDate)) throw badRequest("Invalid inspection", { dueDate: PAST_DUE_DATE });
         changes.due_date = body.dueDate;
         rescheduled = true;
         event({ kind: "rescheduled", note: body.note ?? null, details: JSON.stringify({ from: dueBefore, to: body.dueDate }) });
@@ -312,10 +292,8 @@ export function inspectionRoutes(ctx: AppContext) {
         assertTransition(before.status, body.status);
         statusTo = body.status;
         if (statusTo === "done") {
-          const missing: Record<string, string> = {};
-          if (!body.outcome) missing.outcome = `Choose an outcome: ${OUTCOMES.join(", ")}.`;
-          if (!body.completionNote) missing.completionNote = "Say what was found and done.";
-          if (Object.keys(missing).length) throw badRequest("An inspection is done with an outcome and a completion note.", missing);
+          const complete = completeBody.safeParse(body);
+          if (!complete.success) throw badRequest("An inspection is done with an outcome and a completion note.", zodFields(complete.error));
           changes.outcome = body.outcome;
           changes.completion_note = body.completionNote;
           changes.completed_at = trx.fn.now();

@@ -14,8 +14,9 @@
 // impossible inputs answer 422 { error }.
 
 import { Router, type ErrorRequestHandler } from "express";
-import { z } from "zod";
+import type { z } from "zod";
 import { zodFields } from "../errors.ts";
+import { flatEvaluateBody, fromTestsBody, nameplateBody, nestedEvaluateBody } from "../../src/shared/schemas/motor-model.ts";
 import {
   checkOperatingPoint,
   curves,
@@ -26,58 +27,6 @@ import {
   MotorModelError,
   type MotorModelInput,
 } from "../../src/engine/motor-model/index.ts";
-
-const positive = z.number().positive().finite();
-const nonNegative = z.number().nonnegative().finite();
-const poles = z.number().int().min(2).max(120).refine((p) => p % 2 === 0, "poles must be even");
-const connection = z.enum(["star", "delta"]);
-
-const circuitFields = {
-  r1: nonNegative,
-  x1: nonNegative,
-  r2: positive,
-  x2: nonNegative,
-  xm: positive,
-  rc: positive.nullable().optional(),
-};
-
-const evaluateFields = {
-  lineVoltage: positive,
-  frequencyHz: positive,
-  poles,
-  connection,
-  rotationalLossW: nonNegative.optional(),
-  /** 1 = standstill, 0 = synchronous; plugging (up to 2) and generating (down to −1) are allowed. */
-  slip: z.number().min(-1).max(2).optional(),
-  measuredCurrentA: positive.optional(),
-  points: z.number().int().min(2).max(2000).optional(),
-};
-
-const flatEvaluateSchema = z.object({ ...evaluateFields, ...circuitFields });
-const nestedEvaluateSchema = z.object({ ...evaluateFields, params: z.object(circuitFields) });
-
-const nameplateSchema = z.object({
-  ratedKw: positive,
-  ratedVoltage: positive,
-  ratedCurrent: positive,
-  ratedHz: positive.optional(),
-  poles,
-  ratedRpm: positive,
-  efficiency: z.number().gt(0).max(100).optional(),
-  powerFactor: z.number().gt(0).max(1).optional(),
-  designLetter: z.enum(["A", "B", "C", "D", "wound"]).optional(),
-  connection: connection.optional(),
-});
-
-const reading = z.object({ V: positive, I: positive, P: nonNegative, f: positive });
-const testsSchema = z.object({
-  noLoad: reading,
-  lockedRotor: reading,
-  statorResistanceDc: positive.optional(),
-  designLetter: z.enum(["A", "B", "C", "D", "wound"]),
-  connection: connection.optional(),
-  refine: z.boolean().optional(),
-});
 
 class InvalidBody extends Error {
   constructor(public fields: Record<string, string>) {
@@ -95,10 +44,10 @@ function parse<T>(schema: z.ZodType<T>, body: unknown): T {
 function modelInput(body: unknown): { input: MotorModelInput; slip?: number; measuredCurrentA?: number; points?: number } {
   const nested = typeof body === "object" && body !== null && "params" in body;
   if (nested) {
-    const b = parse(nestedEvaluateSchema, body);
+    const b = parse(nestedEvaluateBody, body);
     return { input: { ...b, params: b.params }, slip: b.slip, measuredCurrentA: b.measuredCurrentA, points: b.points };
   }
-  const b = parse(flatEvaluateSchema, body);
+  const b = parse(flatEvaluateBody, body);
   const { r1, x1, r2, x2, xm, rc } = b;
   return {
     input: {
@@ -141,13 +90,13 @@ export function motorModelRouter(): Router {
   });
 
   router.post("/estimate", (req, res) => {
-    const estimate = estimateFromNameplate(parse(nameplateSchema, req.body));
+    const estimate = estimateFromNameplate(parse(nameplateBody, req.body));
     const { start, pullUp, breakdown } = keyPoints(estimate.input);
     res.json({ ...estimate, start, pullUp, breakdown });
   });
 
   router.post("/from-tests", (req, res) => {
-    res.json(fromTests(parse(testsSchema, req.body)));
+    res.json(fromTests(parse(fromTestsBody, req.body)));
   });
 
   router.use(handleErrors);

@@ -1,31 +1,11 @@
 // Sites and their areas: GET /sites (anyone signed in), create and rename (admin).
-import { z } from "zod";
+import { areaBody, siteBody, sitePatchBody } from "../../src/shared/schemas/sites.ts";
 import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
 import { conflict, notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
 import { idParam } from "../captures/paging.ts";
 
-const siteSchema = z.object({
-  code: z.string().trim().min(1, "Give the site a short code").max(20).regex(/^[A-Za-z0-9_-]+$/, "Letters, digits, - and _ only"),
-  name: z.string().trim().min(1, "Give the site a name").max(200),
-  timezone: z
-    .string()
-    .trim()
-    .max(60)
-    .refine((tz) => isTimeZone(tz), "Not a known time zone (use an IANA name such as Europe/Berlin)")
-    .default("UTC"),
-});
-const areaSchema = z.object({ name: z.string().trim().min(1, "Give the area a name").max(200) });
-
-function isTimeZone(tz: string): boolean {
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: tz });
-    return true;
-  } catch {
-    return false;
-  }
-}
 
 const isUnique = (err: unknown) => (err as { code?: string }).code === "23505";
 
@@ -49,7 +29,7 @@ export function siteRoutes(ctx: AppContext) {
   });
 
   r.post("/sites", "sites.write", async (req, res) => {
-    const body = parseOr400(siteSchema, req.body);
+    const body = parseOr400(siteBody, req.body);
     try {
       const [row] = await db("sites").insert(body).returning("id");
       await audit(db, { actor: req.user, action: "site.created", subjectType: "site", subjectId: row.id, details: body, ip: req.ip });
@@ -62,7 +42,7 @@ export function siteRoutes(ctx: AppContext) {
 
   r.patch("/sites/:id", "sites.write", async (req, res) => {
     const id = idParam(req.params.id, "site");
-    const body = parseOr400(siteSchema.partial(), req.body);
+    const body = parseOr400(sitePatchBody, req.body);
     if (!(await db("sites").where({ id }).first())) throw notFound("No such site.");
     try {
       if (Object.keys(body).length) await db("sites").where({ id }).update({ ...body, updated_at: db.fn.now() });
@@ -76,7 +56,7 @@ export function siteRoutes(ctx: AppContext) {
 
   r.post("/sites/:id/areas", "sites.write", async (req, res) => {
     const siteId = idParam(req.params.id, "site");
-    const body = parseOr400(areaSchema, req.body);
+    const body = parseOr400(areaBody, req.body);
     if (!(await db("sites").where({ id: siteId }).first())) throw notFound("No such site.");
     try {
       const [row] = await db("areas").insert({ site_id: siteId, name: body.name }).returning(["id", "name"]);
@@ -90,7 +70,7 @@ export function siteRoutes(ctx: AppContext) {
 
   r.patch("/areas/:id", "sites.write", async (req, res) => {
     const id = idParam(req.params.id, "area");
-    const body = parseOr400(areaSchema, req.body);
+    const body = parseOr400(areaBody, req.body);
     const area = await db("areas").where({ id }).first();
     if (!area) throw notFound("No such area.");
     try {

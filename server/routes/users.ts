@@ -1,19 +1,11 @@
 import { z } from "zod";
+import { inviteBody, userPatchBody } from "../../src/shared/schemas/users.ts";
 import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
 import { conflict, notFound, parseOr400, badRequest } from "../errors.ts";
-import { ROLES } from "../permissions.ts";
 import { audit } from "../audit.ts";
 import { createUserToken } from "../tokens.ts";
 
-const inviteBody = z.object({
-  email: z.email("Enter a valid e-mail address."),
-  name: z.string().trim().min(1, "Enter a name.").max(200),
-  role: z.enum(ROLES, { message: `Role must be one of ${ROLES.join(", ")}.` }),
-});
-const patchBody = z
-  .object({ role: z.enum(ROLES).optional(), active: z.boolean().optional(), name: z.string().trim().min(1).max(200).optional() })
-  .refine((b) => Object.keys(b).length > 0, "Nothing to change.");
 const idParam = z.coerce.number().int().positive();
 
 const publicUser = (u: Record<string, unknown>) => ({
@@ -61,7 +53,7 @@ export function userRoutes(ctx: AppContext) {
 
   r.patch("/users/:id", "users.manage", async (req, res) => {
     const id = parseOr400(idParam, req.params.id);
-    const body = parseOr400(patchBody, req.body);
+    const body = parseOr400(userPatchBody, req.body);
     const before = await db("users").where({ id }).first();
     if (!before) throw notFound("No such user.");
     if (id === req.user!.id && (body.active === false || (body.role && body.role !== "admin")))

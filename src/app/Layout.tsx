@@ -4,7 +4,7 @@ import { useQueryClient } from "@tanstack/react-query";
 import { Suspense } from "react";
 import { useSession, sessionKeys } from "../lib/session.ts";
 import { api } from "../lib/api.ts";
-import { connectSocket, disconnectSocket, isSocketConnected } from "../lib/socket.ts";
+import { connectSocket, disconnectSocket, isSocketConnected, onConnectionChange } from "../lib/socket.ts";
 import { visibleNav } from "./nav.ts";
 import { PageLoading } from "../components/Spinner.tsx";
 import { Logo } from "../components/Logo.tsx";
@@ -108,12 +108,12 @@ export function Layout() {
   );
 }
 
-/** Polls the socket state (cheap) so the header can say whether live updates arrive. */
+/** Whether live updates arrive, for the header: follows the socket's connect and disconnect. */
 function useLive() {
-  const [live, setLive] = useState(false);
+  const [live, setLive] = useState(isSocketConnected);
   useEffect(() => {
-    const t = setInterval(() => setLive(isSocketConnected()), 2000);
-    return () => clearInterval(t);
+    setLive(isSocketConnected());
+    return onConnectionChange(setLive);
   }, []);
   return live;
 }

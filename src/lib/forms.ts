@@ -1,6 +1,22 @@
 // Form validation helpers shared by every form: zod on the client, and the server's 400 `fields` on top.
-import type { z } from "zod";
+// The rules themselves are the server's request schemas (src/shared/schemas/); a form wraps them with the
+// preprocessing below, since inputs and selects give strings, and only adds rules of its own on top.
+import { z } from "zod";
 import { ApiError } from "./api.ts";
+
+/** What an input or select gives for a number: "" → not given, "12" → 12, "0,5" → 0.5 (a decimal comma is fine). */
+export function inputNumber(v: unknown): unknown {
+  if (v === null || v === undefined) return undefined;
+  if (typeof v !== "string") return v;
+  const s = v.trim();
+  return s === "" ? undefined : Number(s.replace(",", "."));
+}
+
+/** A shared number rule for a text input or select: the rule and its messages stay the server's. */
+export const numberInput = <S extends z.ZodType>(rule: S) => z.preprocess(inputNumber, rule);
+
+/** A shared optional rule for a text input: an empty (or blank) field means "not given". */
+export const optionalInput = <S extends z.ZodType>(rule: S) => z.preprocess((v) => (typeof v === "string" && v.trim() === "" ? undefined : v), rule);
 
 export type FieldErrors = Record<string, string>;
 

@@ -1,8 +1,10 @@
 // Inspection rules shared by Plan and My work: statuses, allowed moves, priorities and their suggested due dates.
 import { computePriority } from "../../server/plan/priority.ts";
-import { z } from "zod";
+import type { z } from "zod";
 import type { InspectionStatus, Priority } from "./contracts.ts";
 import { parseGrade } from "./grades.ts";
+import { numberInput } from "./forms.ts";
+import { completeBody, dueDate, instructions, PAST_DUE_DATE, priority, scheduleBody, type OUTCOMES as OUTCOME_VALUES } from "../shared/schemas/inspections.ts";
 
 export const STATUS_LABEL: Record<InspectionStatus, string> = {
   planned: "Planned",
@@ -63,24 +65,22 @@ export function isOverdue(i: { dueDate: string; status: string }, now: Date = ne
   return (i.status === "planned" || i.status === "in_progress") && i.dueDate.slice(0, 10) < todayIso(now);
 }
 
-const idField = (msg: string) => z.preprocess((v) => (v === "" || v === undefined || v === null ? undefined : Number(v)), z.number({ message: msg }).int().positive(msg));
-
-/** The planner's schedule form (POST /inspections). */
-export const scheduleSchema = z.object({
-  assetId: idField("Pick a motor."),
-  findingId: z.preprocess((v) => (v === "" || v === undefined || v === null ? undefined : Number(v)), z.number().int().positive().optional()),
-  title: z.string().trim().min(1, "Give the inspection a title.").max(200, "Keep the title under 200 characters."),
-  instructions: z.string().trim().max(10_000, "Keep instructions under 10,000 characters."),
-  dueDate: z
-    .string()
-    .regex(/^\d{4}-\d{2}-\d{2}$/, "Pick a due date.")
-    .refine((d) => d >= todayIso(), "The due date is in the past."),
-  assigneeId: idField("Pick a technician."),
-  priority: z.enum(["low", "normal", "high", "urgent"], { message: "Pick a priority." }),
+/**
+ * The planner's schedule form: the server's POST /inspections schema (src/shared/schemas/inspections.ts) with the
+ * selects' strings as numbers. The form always sends instructions and a priority (the suggestion), and refuses
+ * yesterday in the planner's own time zone too (the server only knows what is past everywhere).
+ */
+export const scheduleSchema = scheduleBody.extend({
+  assetId: numberInput(scheduleBody.shape.assetId),
+  findingId: numberInput(scheduleBody.shape.findingId),
+  instructions,
+  dueDate: dueDate.refine((d) => d >= todayIso(), PAST_DUE_DATE),
+  assigneeId: numberInput(scheduleBody.shape.assigneeId),
+  priority,
 });
 export type ScheduleInput = z.output<typeof scheduleSchema>;
 
-export const OUTCOMES: { value: string; label: string }[] = [
+export const OUTCOMES: { value: (typeof OUTCOME_VALUES)[number]; label: string }[] = [
   { value: "no_fault_found", label: "No fault found" },
   { value: "fault_confirmed", label: "Fault confirmed" },
   { value: "repaired", label: "Repaired on site" },
@@ -88,10 +88,6 @@ export const OUTCOMES: { value: string; label: string }[] = [
   { value: "other", label: "Other (see note)" },
 ];
 
-/** The technician's completion form (PATCH /inspections/:id with status done). */
-export const completeSchema = z
-  .object({
-    outcome: z.enum(["no_fault_found", "fault_confirmed", "repaired", "remeasure", "other"], { message: "Pick an outcome." }),
-    completionNote: z.string().trim().min(1, "Say what was found and done.").max(10_000, "Keep the note under 10,000 characters."),
-  });
+/** The technician's completion form (PATCH /inspections/:id with status done): what the server requires for done. */
+export const completeSchema = completeBody;
 export type CompleteInput = z.output<typeof completeSchema>;

@@ -25,12 +25,16 @@ export const EVENT_INVALIDATIONS: Record<ServerEventName, readonly QueryKey[]> =
 type Listener = (payload: unknown) => void;
 const listeners = new Map<ServerEventName, Set<Listener>>();
 let socket: Socket | null = null;
+const connectionListeners = new Set<(connected: boolean) => void>();
+const announce = (connected: boolean) => connectionListeners.forEach((fn) => fn(connected));
 
 /** Connect (once) and wire events to the query cache. Returns a function that disconnects. */
 export function connectSocket(queryClient: QueryClient): () => void {
   if (socket) return disconnectSocket;
   const s = io({ withCredentials: true, transports: ["websocket", "polling"], reconnectionDelayMax: 10_000 });
   socket = s;
+  s.on("connect", () => announce(true));
+  s.on("disconnect", () => announce(false));
   for (const event of Object.keys(EVENT_INVALIDATIONS) as ServerEventName[]) {
     s.on(event as string, (payload: unknown) => {
       for (const key of EVENT_INVALIDATIONS[event]) void queryClient.invalidateQueries({ queryKey: key });
@@ -54,6 +58,7 @@ export function connectSocket(queryClient: QueryClient): () => void {
 export function disconnectSocket() {
   socket?.disconnect();
   socket = null;
+  announce(false);
 }
 
 /** Listen to one server event (e.g. to update an upload row at once). Returns the unsubscribe function. */
@@ -66,4 +71,10 @@ export function onServerEvent<E extends ServerEventName>(event: E, fn: (payload:
 
 export function isSocketConnected(): boolean {
   return !!socket?.connected;
+}
+
+/** Be told when the live connection comes up or drops. Returns the unsubscribe function. */
+export function onConnectionChange(fn: (connected: boolean) => void): () => void {
+  connectionListeners.add(fn);
+  return () => connectionListeners.delete(fn);
 }

@@ -189,6 +189,26 @@ describe("priority rule (grade × criticality)", () => {
     expect(notWorker.status).toBe(400);
     expect(notWorker.body.fields.assigneeId).toMatch(/technician or planner/);
   });
+
+  it("refuses a due date in the past when scheduling and when moving one, but lets an overdue date stand", async () => {
+    const past = await agents.planner.post("/api/inspections").send({ assetId: ids.medium, title: "INSPT past", dueDate: isoDay(-3), assigneeId: ids.tech });
+    expect(past.status).toBe(400);
+    expect(past.body.fields).toEqual({ dueDate: "The due date is in the past." });
+
+    const i = await plan({ title: "INSPT past move", dueDate: isoDay(2) });
+    const back = await agents.planner.patch(`/api/inspections/${i.id}`).send({ dueDate: isoDay(-3) });
+    expect(back.status).toBe(400);
+    expect(back.body.fields).toEqual({ dueDate: "The due date is in the past." });
+    expect((await env.db("inspection_events").where({ inspection_id: i.id, kind: "rescheduled" })).length).toBe(0);
+
+    // Overdue already: the same date comes back with other edits (the Plan dialog sends it) and is accepted.
+    await env.db("inspections").where({ id: i.id }).update({ due_date: isoDay(-3) });
+    const edit = await agents.planner.patch(`/api/inspections/${i.id}`).send({ dueDate: isoDay(-3), priority: "urgent" });
+    expect(edit.status, JSON.stringify(edit.body)).toBe(200);
+    expect(edit.body).toMatchObject({ dueDate: isoDay(-3), priority: "urgent" });
+    // Out of the way of the list tests' overdue count.
+    expect((await agents.planner.patch(`/api/inspections/${i.id}`).send({ status: "cancelled" })).status).toBe(200);
+  });
 });
 
 describe("candidates", () => {

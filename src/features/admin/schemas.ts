@@ -1,21 +1,13 @@
-import { z } from "zod";
-import { ROLES } from "../../lib/contracts.ts";
+// The admin forms: the server's request schemas (src/shared/schemas/), with a select's string turned into a number.
+import { numberInput } from "../../lib/forms.ts";
+import { inviteBody } from "../../shared/schemas/users.ts";
+import { areaBody, siteBody } from "../../shared/schemas/sites.ts";
+import { gatewayBody } from "../../shared/schemas/gateways.ts";
 
-export const inviteSchema = z.object({
-  email: z.email("Enter a valid e-mail address."),
-  name: z.string().trim().min(1, "Enter a name.").max(200, "Keep the name under 200 characters."),
-  role: z.enum(ROLES, { message: "Pick a role." }),
-});
+export const inviteSchema = inviteBody;
 
-export const siteSchema = z.object({
-  code: z.string().trim().min(1, "Enter a short code.").max(20, "Keep the code under 20 characters.").regex(/^[A-Za-z0-9_-]+$/, "Letters, digits, - and _ only."),
-  name: z.string().trim().min(1, "Enter the site's name.").max(200),
-  timezone: z.string().trim().min(1, "Enter a time zone, e.g. Europe/Berlin."),
-});
+export const siteSchema = siteBody;
 
-export const areaSchema = z.object({ name: z.string().trim().min(1, "Enter the area's name.").max(200) });
+export const areaSchema = areaBody;
 
-export const gatewaySchema = z.object({
-  name: z.string().trim().min(1, "Name the gateway.").max(200),
-  siteId: z.preprocess((v) => (v === "" ? undefined : Number(v)), z.number({ message: "Pick a site." }).int().positive("Pick a site.")),
-});
+export const gatewaySchema = gatewayBody.extend({ siteId: numberInput(gatewayBody.shape.siteId) });

@@ -1,17 +1,15 @@
 import { z } from "zod";
+import { forgotBody, loginBody, setPasswordBody } from "../../shared/schemas/auth.ts";
 
-// The same rules as the server (server/routes/auth.ts), so most mistakes are shown before the request.
-export const signInSchema = z.object({
-  email: z.email("Enter a valid e-mail address."),
-  password: z.string().min(1, "Enter your password."),
-});
+// The server's own request schemas (src/shared/schemas/auth.ts), so most mistakes are shown before the request.
+export const signInSchema = loginBody;
 
-export const forgotSchema = z.object({ email: z.email("Enter a valid e-mail address.") });
+export const forgotSchema = forgotBody;
 
-export const passwordRule = z.string().min(10, "Use at least 10 characters.").max(200, "Use at most 200 characters.");
-
-export const setPasswordSchema = z
-  .object({ password: passwordRule, confirm: z.string() })
+/** The server's password rule, typed twice; the token comes from the link, not from the form. */
+export const setPasswordSchema = setPasswordBody
+  .pick({ password: true })
+  .extend({ confirm: z.string() })
   .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
 
 export type SignInInput = z.infer<typeof signInSchema>;

@@ -1,40 +1,32 @@
 // POST /api/motor-model/evaluate (server/routes/motor-model.ts): without slip → curves and key points;
-// with slip → the operating point and its flags. The form's zod schema sits beside the call.
+// with slip → the operating point and its flags. The form's zod schema (the server's, over text inputs) sits beside the call.
 import { useMutation } from "@tanstack/react-query";
 import { z } from "zod";
 import { apiPost } from "../../../lib/api.ts";
+import { numberInput } from "../../../lib/forms.ts";
+import { flatEvaluateBody } from "../../../shared/schemas/motor-model.ts";
 import type { KeyPoints, MotorCurves } from "../../../engine/motor-model/index.ts";
 import type { ModelFlag, OperatingPoint } from "../../../engine/motor-model/types.ts";
 
-const required = (label: string, rule: (n: z.ZodNumber) => z.ZodNumber) =>
-  z
-    .string()
-    .trim()
-    .min(1, `Enter ${label}`)
-    .transform((s) => Number(s.replace(",", ".")))
-    .pipe(rule(z.number({ message: `${label} must be a number` }).finite(`${label} must be a number`)));
-const optional = (label: string, rule: (n: z.ZodNumber) => z.ZodNumber) =>
-  z
-    .string()
-    .trim()
-    .transform((s) => (s === "" ? undefined : Number(s.replace(",", "."))))
-    .pipe(rule(z.number({ message: `${label} must be a number` }).finite(`${label} must be a number`)).optional());
-
+const rules = flatEvaluateBody.shape;
+/** The calculator form: the server's POST /evaluate rules (src/shared/schemas/motor-model.ts) over text inputs. */
 export const calculatorSchema = z.object({
-  lineVoltage: required("the line voltage", (n) => n.positive("Must be above 0 V")),
-  frequencyHz: required("the frequency", (n) => n.positive("Must be above 0 Hz")),
-  poles: required("the poles", (n) => n.int("Whole number").min(2, "At least 2").max(120, "At most 120")).refine((p) => p % 2 === 0, "Poles come in pairs: an even number"),
-  connection: z.enum(["star", "delta"]),
-  r1: required("R1", (n) => n.nonnegative("Must be ≥ 0 Ω")),
-  x1: required("X1", (n) => n.nonnegative("Must be ≥ 0 Ω")),
-  r2: required("R2", (n) => n.positive("Must be above 0 Ω")),
-  x2: required("X2", (n) => n.nonnegative("Must be ≥ 0 Ω")),
-  xm: required("Xm", (n) => n.positive("Must be above 0 Ω")),
-  rc: optional("Rc", (n) => n.positive("Must be above 0 Ω")),
-  rotationalLossW: optional("the rotational losses", (n) => n.nonnegative("Must be ≥ 0 W")),
-  slip: optional("the slip", (n) => n.min(-1, "At least −1").max(2, "At most 2")),
+  lineVoltage: numberInput(rules.lineVoltage),
+  frequencyHz: numberInput(rules.frequencyHz),
+  poles: numberInput(rules.poles),
+  connection: rules.connection,
+  r1: numberInput(rules.r1),
+  x1: numberInput(rules.x1),
+  r2: numberInput(rules.r2),
+  x2: numberInput(rules.x2),
+  xm: numberInput(rules.xm),
+  rc: numberInput(rules.rc),
+  rotationalLossW: numberInput(rules.rotationalLossW),
+  slip: numberInput(rules.slip),
 });
-export type CalculatorValues = z.input<typeof calculatorSchema>;
+type NumberField = Exclude<keyof z.output<typeof calculatorSchema>, "connection">;
+/** The form's values: what the inputs hold. */
+export type CalculatorValues = Record<NumberField, string> & { connection: "star" | "delta" };
 export type CalculatorInput = z.output<typeof calculatorSchema>;
 
 /** A motor to start from (460 V, 60 Hz, 4-pole, star, about 19 kW), so the screen shows results at once. */

@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { z } from "zod";
+import type { z } from "zod";
+import { verdictBody } from "../../../shared/schemas/findings.ts";
 import { apiPost } from "../../../lib/api.ts";
 import type { Finding } from "../../../lib/contracts.ts";
 import { rootKeys } from "../../../lib/query.ts";
@@ -10,17 +11,18 @@ export const VERDICTS = [
   { value: "remeasure", label: "Ask for a re-measure", help: "The capture cannot decide it; a technician measures again." },
 ] as const;
 
-export const verdictSchema = z.object({
-  verdict: z.enum(["confirmed", "dismissed", "remeasure"]),
-  note: z.string().trim().max(2000, "Keep the note under 2000 characters"),
-});
-export type VerdictInput = z.infer<typeof verdictSchema>;
+/** What a note is needed for, in the form only: the API takes a dismissal or re-measure without one. */
+export const NOTE_NEEDED = "Say why in the note: the technician and the next analyst will read it.";
+
+/** The verdict form: the server's schema (src/shared/schemas/findings.ts), and a note unless confirming. */
+export const verdictSchema = verdictBody.refine((v) => v.verdict === "confirmed" || v.note !== "", { path: ["note"], message: NOTE_NEEDED });
+export type VerdictInput = z.output<typeof verdictBody>;
 
 export function usePostVerdict() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: ({ findingId, input }: { findingId: number; input: VerdictInput }) =>
-      apiPost<Finding>(`/findings/${findingId}/verdict`, verdictSchema.parse(input)),
+      apiPost<Finding>(`/findings/${findingId}/verdict`, verdictBody.parse(input)),
     onSuccess: () =>
       Promise.all([
         qc.invalidateQueries({ queryKey: rootKeys.findings }),

@@ -46,10 +46,6 @@ export function VerdictForm({ finding }: { finding: Finding }) {
       setError(parsed.error.issues[0]?.message ?? "Check the form");
       return;
     }
-    if (parsed.data.verdict !== "confirmed" && !parsed.data.note) {
-      setError("Say why in the note: the technician and the next analyst will read it.");
-      return;
-    }
     try {
       await post.mutateAsync({ findingId: finding.id, input: parsed.data });
       setDone(VERDICT_WORD[parsed.data.verdict]);
@@ -84,7 +80,7 @@ export function VerdictForm({ finding }: { finding: Finding }) {
             ))}
           </fieldset>
           <Field label="Note" hint={values.verdict === "confirmed" ? "Optional for a confirmation" : "Required: why"}>
-            {(p) => <TextArea {...p} value={values.note} maxLength={2000} onChange={(e) => setValues((x) => ({ ...x, note: e.target.value }))} />}
+            {(p) => <TextArea {...p} value={values.note} maxLength={4000} onChange={(e) => setValues((x) => ({ ...x, note: e.target.value }))} />}
           </Field>
           <FormError message={error} />
           <div className="flex items-center gap-3">
