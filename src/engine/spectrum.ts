@@ -359,8 +359,9 @@ export interface DisplaySpectrum {
  * Spectrum for the viewer, in dB relative to the supply component (or referenceAmplitude), or as velocity in
  * mm/s r.m.s. per line for a vibration channel. A narrow band (≤ fs/8 wide) is computed by complex zoom at full
  * resolution 1/T; a low band (fMax ≤ fs/6) by real decimation; otherwise one FFT of the record (Welch-averaged in
- * 2^20-sample segments for very long records). Points are merged by max-hold of the plotted quantity (after
- * integration in velocity mode, so the 1/f weighting picks the right bin).
+ * 2^21-sample segments for very long records, so a display spectrum holds up to about a million lines). Points
+ * are merged by max-hold of the plotted quantity (after integration in velocity mode, so the 1/f weighting picks
+ * the right bin).
  */
 export function spectrumForDisplay(data: ArrayLike<number>, fs: number, opts: DisplaySpectrumOptions = {}): DisplaySpectrum {
   const velocity = opts.quantity === "velocity-mm-s";
@@ -377,7 +378,7 @@ export function spectrumForDisplay(data: ArrayLike<number>, fs: number, opts: Di
     const dec = decimateReal(data, fs, fMax);
     spec = realSpectrum(dec.data, dec.sampleRate, { window });
   } else {
-    spec = realSpectrum(data, fs, { window, segment: Math.min(data.length, 1 << 20) });
+    spec = realSpectrum(data, fs, { window, segment: Math.min(data.length, 1 << 21) });
   }
   const k0 = Math.max(0, Math.ceil(binOf(spec, fMin)));
   const k1 = Math.min(spec.amp.length - 1, Math.floor(binOf(spec, fMax)));
