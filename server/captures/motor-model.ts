@@ -11,6 +11,19 @@ import {
   type MotorModelInput,
 } from "../../src/engine/motor-model/index.ts";
 
+// An estimate depends only on the nameplate: keep the last few per motor and nameplate version.
+const estimates = new Map<string, ReturnType<typeof estimateFromNameplate>>();
+function cachedEstimate(asset: Record<string, any>, np: Parameters<typeof estimateFromNameplate>[0]) {
+  const key = `${asset.id}:${asset.nameplate_version}:${JSON.stringify(np)}`;
+  let est = estimates.get(key);
+  if (!est) {
+    est = estimateFromNameplate(np);
+    if (estimates.size >= 200) estimates.delete(estimates.keys().next().value!);
+    estimates.set(key, est);
+  }
+  return est;
+}
+
 export async function motorModelOf(db: Knex, asset: Record<string, any>) {
   let input: MotorModelInput;
   let sources: unknown = null;
@@ -23,7 +36,7 @@ export async function motorModelOf(db: Knex, asset: Record<string, any>) {
     } else {
       if (!asset.rated_kw || !asset.rated_voltage || !asset.rated_current)
         throw new HttpError(422, "The motor model needs rated kW, voltage and current on the nameplate; add them to the motor first.", undefined, "nameplate-incomplete");
-      const est = estimateFromNameplate({
+      const est = cachedEstimate(asset, {
         poles: asset.poles,
         ratedRpm: asset.rated_rpm,
         ratedHz: asset.rated_hz ?? undefined,
