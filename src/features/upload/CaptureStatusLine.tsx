@@ -1,5 +1,8 @@
 import { Link } from "react-router-dom";
-import { useQuery } from "@tanstack/react-query";
+import { useEffect } from "react";
+import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { onServerEvent } from "../../lib/socket.ts";
+import type { CaptureDetail } from "../../lib/contracts.ts";
 import { captureQueryOptions } from "./api/captures.ts";
 import { STATUS_STEPS, stepIndex } from "./upload-logic.ts";
 import { GradeBadge } from "../../components/GradeBadge.tsx";
@@ -7,6 +10,18 @@ import { GradeBadge } from "../../components/GradeBadge.tsx";
 /** Live state of one uploaded capture: steps received → queued → analysing → analysed, or failed with its reason. */
 export function CaptureStatusLine({ id, initialStatus = "received" }: { id: number; initialStatus?: string }) {
   const q = useQuery(captureQueryOptions(id));
+  const queryClient = useQueryClient();
+  // Show each step the moment its event arrives; the refetch the same event starts brings the rest (grade, error).
+  useEffect(
+    () =>
+      onServerEvent("capture:status", (e) => {
+        if (e.id !== id) return;
+        queryClient.setQueryData<CaptureDetail>(captureQueryOptions(id).queryKey, (old) =>
+          old ? { ...old, status: e.status, error: e.error ?? old.error } : old,
+        );
+      }),
+    [id, queryClient],
+  );
   const status = q.data?.status ?? initialStatus;
   const failed = status === "failed";
   const at = stepIndex(status);
