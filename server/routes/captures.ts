@@ -10,23 +10,9 @@ import { checkFile, FileRejected, receiveMultipart, removeDir, type CheckedFile 
 import { requeueAnalysis, storeCapturesAndQueue } from "../captures/ingest.ts";
 import { spectrumView, waveformView } from "../captures/signal-views.ts";
 import { blobStoreOf } from "../blob/index.ts";
+import { uploadFields } from "../../src/shared/schemas/captures.ts";
 
 const STATUSES = ["received", "queued", "analysing", "analysed", "failed"] as const;
-
-const optionalNumber = (schema: z.ZodNumber) => z.preprocess((v) => (v === "" || v === undefined || v === null ? undefined : Number(v)), schema.optional());
-
-const uploadSchema = z.object({
-  assetId: z.preprocess((v) => (v === "" || v === undefined ? undefined : Number(v)), z.number({ message: "Choose the motor this capture belongs to" }).int().positive("Choose the motor this capture belongs to")),
-  measurementPointId: optionalNumber(z.number().int().positive()),
-  takenAt: z
-    .string()
-    .trim()
-    .optional()
-    .refine((s) => !s || !Number.isNaN(Date.parse(s)), "Not a date and time (use ISO 8601, e.g. 2026-12-01T08:30:00Z)")
-    .refine((s) => !s || Date.parse(s) <= Date.now() + 5 * 60_000, "The capture cannot be taken in the future"),
-  notes: z.string().max(2000, "Notes are at most 2000 characters").optional(),
-  sampleRate: optionalNumber(z.number().positive("The sample rate must be a positive number of Hz").max(10_000_000, "The sample rate must be at most 10 MHz")),
-});
 
 export function captureRoutes(ctx: AppContext) {
   const r = guardedRouter("/api");
@@ -43,7 +29,7 @@ export function captureRoutes(ctx: AppContext) {
     // The answer is sent only after the temp folder is gone, so a client never sees leftovers.
     let answer: { status: number; body: unknown };
     try {
-      const meta = parseOr400(uploadSchema, fields, "Invalid capture details");
+      const meta = parseOr400(uploadFields, fields, "Invalid capture details");
       if (!files.length) throw badRequest("Attach at least one capture file (form part \"file\").", { file: "Required" });
       const asset = await db("assets").where({ id: meta.assetId }).first("id");
       if (!asset) throw new HttpError(404, `No motor with id ${meta.assetId}.`, { assetId: "No such motor" }, "not-found");

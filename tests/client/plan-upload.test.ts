@@ -3,6 +3,7 @@ import { validate } from "../../src/lib/forms.ts";
 import { ApiError } from "../../src/lib/api.ts";
 import { allowedMoves, completeSchema, isOverdue, scheduleSchema, suggestDueDate, suggestPriority, todayIso } from "../../src/lib/inspections.ts";
 import { checkFile, rejectionMessage, stepIndex, uploadFormSchema } from "../../src/features/upload/upload-logic.ts";
+import { uploadFields } from "../../src/shared/schemas/captures.ts";
 import { gridRange, monthGrid, parseMonth } from "../../src/features/plan/calendar.ts";
 import { linkify } from "../../src/features/outbox/linkify.ts";
 import { visibleNav } from "../../src/app/nav.ts";
@@ -92,6 +93,14 @@ describe("upload rules", () => {
     expect(validate(uploadFormSchema, { ...base, assetId: "" })).toMatchObject({ ok: false, errors: { assetId: "Pick a motor." } });
     expect(validate(uploadFormSchema, { ...base, takenAt: "2999-01-01T00:00" })).toMatchObject({ ok: false, errors: { takenAt: "The capture time is in the future." } });
     expect(validate(uploadFormSchema, { ...base, sampleRate: "-5" })).toMatchObject({ ok: false, errors: { sampleRate: "The sample rate must be above 0 Hz." } });
+  });
+  it("upload form: the fields are the server's own schema, so the browser refuses what the route would refuse", () => {
+    for (const k of ["assetId", "measurementPointId", "takenAt", "notes", "sampleRate"] as const) expect(uploadFormSchema.shape[k]).toBe(uploadFields.shape[k]);
+    // a local datetime-local value is sent as ISO 8601 in UTC, which the route parses back to the same instant
+    const r = validate(uploadFormSchema, { siteId: "1", assetId: "2", takenAt: "2025-01-02T03:04" });
+    expect(r.ok && r.data.takenAt).toBe(new Date(2025, 0, 2, 3, 4).toISOString());
+    expect(validate(uploadFields, { assetId: "2", takenAt: r.ok ? r.data.takenAt : "" })).toMatchObject({ ok: true, data: { takenAt: new Date(2025, 0, 2, 3, 4).toISOString() } });
+    expect(validate(uploadFields, { assetId: "2", sampleRate: "2000000" })).toMatchObject({ ok: false, errors: { sampleRate: "Above 1 MHz is not a plausible sample rate." } });
   });
   it("status steps", () => {
     expect(["received", "queued", "analysing", "analysed", "failed"].map(stepIndex)).toEqual([0, 1, 2, 3, 3]);

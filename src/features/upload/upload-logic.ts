@@ -2,6 +2,7 @@
 import { z } from "zod";
 import { ApiError } from "../../lib/api.ts";
 import type { CaptureStatus } from "../../lib/contracts.ts";
+import { uploadFields } from "../../shared/schemas/captures.ts";
 
 export const ACCEPTED_EXTENSIONS = [".csv", ".wav"] as const;
 
@@ -56,33 +57,9 @@ export function stepIndex(status: string): number {
   return i === -1 ? (status === "failed" ? 3 : 0) : i;
 }
 
-/** The form around the files. Empty strings from inputs mean "not given". */
-const optionalId = z.preprocess((v) => (v === "" || v === undefined || v === null ? undefined : Number(v)), z.number().int().positive().optional());
-export const uploadFormSchema = z.object({
+/** The form around the files: the server's upload fields (src/shared/schemas/captures.ts) plus the site picker. */
+export const uploadFormSchema = uploadFields.extend({
   siteId: z.preprocess((v) => (v === "" ? undefined : Number(v)), z.number({ message: "Pick a site." }).int().positive("Pick a site.")),
-  assetId: z.preprocess((v) => (v === "" ? undefined : Number(v)), z.number({ message: "Pick a motor." }).int().positive("Pick a motor.")),
-  measurementPointId: optionalId,
-  takenAt: z
-    .string()
-    .optional()
-    .transform((v, ctx) => {
-      if (!v) return undefined;
-      const d = new Date(v);
-      if (Number.isNaN(d.getTime())) {
-        ctx.addIssue({ code: "custom", message: "Enter a valid date and time." });
-        return z.NEVER;
-      }
-      if (d.getTime() > Date.now() + 10 * 60_000) {
-        ctx.addIssue({ code: "custom", message: "The capture time is in the future." });
-        return z.NEVER;
-      }
-      return d.toISOString();
-    }),
-  notes: z.string().max(2000, "Keep notes under 2000 characters.").optional().transform((v) => v?.trim() || undefined),
-  sampleRate: z.preprocess(
-    (v) => (v === "" || v === undefined ? undefined : Number(v)),
-    z.number({ message: "Enter the sample rate in Hz." }).positive("The sample rate must be above 0 Hz.").max(1_000_000, "Above 1 MHz is not a plausible sample rate.").optional(),
-  ),
 });
 export type UploadFormValues = z.output<typeof uploadFormSchema>;
 
