@@ -30,7 +30,9 @@ import { attachGatewayNamespace, gatewayRoom, type StoreCaptureFn } from "./gate
 export const EVENT_AUDIENCE: Record<string, Permission> = {
   "capture:status": "fleet.read",
   "finding:new": "fleet.read",
+  "finding:verdict": "fleet.read",
   "inspection:changed": "fleet.read",
+  /** Analyst-only events (none sent yet); the prefix rule keeps any future one from technicians and planners. */
   "review:": "review.read",
 };
 

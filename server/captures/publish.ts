@@ -2,7 +2,7 @@ import type { Knex } from "knex";
 import type { AppContext } from "../context.ts";
 import { notifyEvent } from "../events.ts";
 
-export type PipelineEvent = "capture:status" | "finding:new";
+export type PipelineEvent = "capture:status" | "finding:new" | "finding:verdict";
 
 /**
  * Announce a live-update event from the server process: straight to the browsers when the realtime module

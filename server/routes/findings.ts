@@ -7,6 +7,7 @@ import { notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
 import { verdictBody } from "../../src/shared/schemas/findings.ts";
 import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
+import { publishEvent } from "../captures/publish.ts";
 
 const FINDING_STATUSES = ["open", "confirmed", "dismissed", "remeasure"] as const;
 
@@ -103,6 +104,8 @@ export function findingRoutes(ctx: AppContext) {
       await audit(trx, { actor: req.user, action: "verdict.set", subjectType: "finding", subjectId: id, details: { from: f.status, to: body.verdict, note: body.note || undefined }, ip: req.ip });
     });
     const row = await findingSelect(findingBase(db).where("f.id", id)).first();
+    // Other analysts' review queues, the plan's "needs action" list and the fleet counts change with it.
+    await publishEvent(ctx, "finding:verdict", { id, assetId: row.asset_id, verdict: body.verdict });
     res.json((await withVerdicts(db, [row]))[0]);
   });
 

@@ -12,6 +12,8 @@ export interface ServerEvents {
   /** kind "rotor" (level "R1".."R5") or "vibration" (level a zone letter). */
   "finding:new": (e: { id: number; assetId: number; kind: string; level: GradeValue }) => void;
   "inspection:changed": (e: { id: number }) => void;
+  /** An analyst set a verdict on a finding (confirmed, dismissed, remeasure). */
+  "finding:verdict": (e: { id: number; assetId: number; verdict: string }) => void;
 }
 export type ServerEventName = keyof ServerEvents;
 
@@ -20,6 +22,7 @@ export const EVENT_INVALIDATIONS: Record<ServerEventName, readonly QueryKey[]> =
   "capture:status": [rootKeys.captures, rootKeys.assets, rootKeys.review, rootKeys.fleet, rootKeys.findings],
   "finding:new": [rootKeys.findings, rootKeys.review, rootKeys.fleet, rootKeys.assets],
   "inspection:changed": [rootKeys.inspections, rootKeys.fleet, rootKeys.findings],
+  "finding:verdict": [rootKeys.findings, rootKeys.review, rootKeys.fleet, rootKeys.assets, rootKeys.inspections],
 };
 
 type Listener = (payload: unknown) => void;

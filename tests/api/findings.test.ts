@@ -1,4 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
+import pg from "pg";
+import { EVENTS_CHANNEL } from "../../server/events.ts";
 import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
 import { makeMotor } from "../helpers/pipeline.ts";
 import { writeAnalysisResult } from "../../server/captures/result.ts";
@@ -7,10 +9,27 @@ import type { AnalysisResult } from "../../src/engine/types.ts";
 
 // Findings are raised when a motor gets worse; analysts give verdicts (audited); the review queue, worst first.
 let env: TestEnv;
+let listener: pg.Client;
+const verdictEvents: Record<string, unknown>[] = [];
 beforeAll(async () => {
   env = await makeTestEnv();
+  listener = new pg.Client({ connectionString: inject("databaseUrl") });
+  await listener.connect();
+  listener.on("notification", (n) => {
+    const e = JSON.parse(n.payload!) as { event: string; payload: Record<string, unknown> };
+    if (e.event === "finding:verdict") verdictEvents.push(e.payload);
+  });
+  await listener.query(`listen ${EVENTS_CHANNEL}`);
 });
-afterAll(async () => env?.close());
+afterAll(async () => {
+  await listener?.end();
+  await env?.close();
+});
+
+async function until(ok: () => boolean, ms = 5000) {
+  const end = Date.now() + ms;
+  while (!ok() && Date.now() < end) await new Promise((r) => setTimeout(r, 25));
+}
 
 function result(grade: string | null, depthDb: number | null, zone: "A" | "B" | "C" | "D" | null = null, rms = 1): AnalysisResult {
   return {
@@ -123,6 +142,12 @@ describe("findings API", () => {
     expect(second.body.verdicts).toHaveLength(2);
     const trail = await env.db("audit_log").where({ action: "verdict.set", subject_type: "finding", subject_id: String(findingId) }).orderBy("id");
     expect(trail.map((t) => t.details)).toMatchObject([{ from: "open", to: "remeasure" }, { from: "remeasure", to: "confirmed" }]);
+    // each verdict is announced, so other analysts' queues and the fleet counts refresh live
+    await until(() => verdictEvents.length >= 2);
+    expect(verdictEvents).toEqual([
+      { id: findingId, assetId, verdict: "remeasure" },
+      { id: findingId, assetId, verdict: "confirmed" },
+    ]);
     expect((await analyst.get(`/api/findings?siteId=${siteId}&status=open`)).body.total).toBe(0);
     expect((await analyst.post(`/api/findings/99999999/verdict`).send({ verdict: "confirmed" })).status).toBe(404);
   });
