@@ -103,7 +103,7 @@ export async function spectrumView(
   const fMax = Math.min(top, q.fmax ?? top);
   if (!(fMax > fMin)) throw badRequest("Invalid frequency range", { fmax: `fmax must be above fmin (the spectrum spans ${s.series.x0}–${top.toFixed(1)} Hz)` });
   const d = decimateMinMax(s.series, { xMin: fMin, xMax: fMax, buckets: q.buckets });
-  return { channel: s.channel, unit: s.unit, fMin, fMax, resolutionHz: s.resolutionHz, decimated: d.decimated, hz: d.x, min: d.min, max: d.max };
+  return { channel: s.channel, unit: s.unit, fMin, fMax, resolutionHz: s.resolutionHz, lowCutHz: s.lowCutHz ?? null, decimated: d.decimated, hz: d.x, min: d.min, max: d.max };
 }
 
 export async function waveformView(db: Knex, blob: BlobStore, id: number, q: { channel?: string; from?: number; to?: number; buckets: number }) {

@@ -15,6 +15,8 @@ export interface FullSpectrum {
   unit: string;
   series: UniformSeries & { values: Float32Array };
   resolutionHz: number;
+  /** Velocity integrated from acceleration: lines below this are 0 (see spectrumForDisplay). */
+  lowCutHz?: number;
 }
 
 export const SPECTRUM_FORMAT = "barhound-spectrum-1";
@@ -34,7 +36,7 @@ export function computeFullSpectrum(ch: Channel, sampleRate: number): FullSpectr
   const n = d.hz.length;
   const values = Float32Array.from(vibration ? d.level : d.db);
   const dx = n > 1 ? d.hz[1] - d.hz[0] : sampleRate / 2;
-  return { channel: ch.name, unit: d.unit, series: { x0: d.hz[0] ?? 0, dx, values }, resolutionHz: d.resolutionHz };
+  return { channel: ch.name, unit: d.unit, series: { x0: d.hz[0] ?? 0, dx, values }, resolutionHz: d.resolutionHz, ...(d.lowCutHz !== undefined ? { lowCutHz: d.lowCutHz } : {}) };
 }
 
 const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
@@ -42,7 +44,7 @@ const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
 export function encodeSpectrum(s: FullSpectrum, kind: string): Buffer {
   const values = s.series.values;
   const header = Buffer.from(
-    JSON.stringify({ format: SPECTRUM_FORMAT, channel: s.channel, kind, unit: s.unit, x0: s.series.x0, dx: s.series.dx, resolutionHz: s.resolutionHz, count: values.length }),
+    JSON.stringify({ format: SPECTRUM_FORMAT, channel: s.channel, kind, unit: s.unit, x0: s.series.x0, dx: s.series.dx, resolutionHz: s.resolutionHz, lowCutHz: s.lowCutHz, count: values.length }),
     "utf8",
   );
   const start = Math.ceil((4 + header.length) / 4) * 4;
@@ -59,7 +61,7 @@ export function decodeSpectrum(bytes: Buffer): FullSpectrum | null {
   if (bytes.length < 8) return null;
   const len = bytes.readUInt32LE(0);
   if (4 + len > bytes.length) return null;
-  let h: { format?: unknown; channel?: unknown; unit?: unknown; x0?: unknown; dx?: unknown; resolutionHz?: unknown; count?: unknown };
+  let h: { format?: unknown; channel?: unknown; unit?: unknown; x0?: unknown; dx?: unknown; resolutionHz?: unknown; lowCutHz?: unknown; count?: unknown };
   try {
     h = JSON.parse(bytes.toString("utf8", 4, 4 + len));
   } catch {
@@ -72,5 +74,11 @@ export function decodeSpectrum(bytes: Buffer): FullSpectrum | null {
   const values = new Float32Array(count);
   if (LITTLE_ENDIAN) new Uint8Array(values.buffer).set(bytes.subarray(start, start + count * 4));
   else for (let i = 0; i < count; i++) values[i] = bytes.readFloatLE(start + i * 4);
-  return { channel: h.channel, unit: h.unit, series: { x0: h.x0 as number, dx: h.dx as number, values }, resolutionHz: h.resolutionHz as number };
+  return {
+    channel: h.channel,
+    unit: h.unit,
+    series: { x0: h.x0 as number, dx: h.dx as number, values },
+    resolutionHz: h.resolutionHz as number,
+    ...(typeof h.lowCutHz === "number" ? { lowCutHz: h.lowCutHz } : {}),
+  };
 }

@@ -321,6 +321,9 @@ export function lineVelocityMmS(amp: number, hz: number, unit: string): number {
   return hz > 0 ? (rms / (2 * Math.PI * hz)) * 1000 : 0;
 }
 
+/** Default low cut of a velocity spectrum integrated from acceleration (Hz): see DisplaySpectrumOptions. */
+export const VELOCITY_LOW_CUT_HZ = 2;
+
 /** "db": dB relative to the supply line (current). "velocity-mm-s": velocity per line in mm/s r.m.s. (vibration). */
 export type DisplayQuantity = "db" | "velocity-mm-s";
 
@@ -340,6 +343,12 @@ export interface DisplaySpectrumOptions {
   quantity?: DisplayQuantity;
   /** Channel unit for "velocity-mm-s": "g", "m/s2" (default), "mm/s", "m/s", "in/s". */
   unit?: string;
+  /**
+   * "velocity-mm-s" from an accelerometer: lines below this are shown as 0 (default 2 Hz, the lower edge of the
+   * ISO 20816-3 band for the slowest machines, domain.md §6). Dividing by 2πf lifts the window's leakage of DC and
+   * the sensor's low-frequency noise into tall false lines near 0 Hz otherwise.
+   */
+  velocityLowCutHz?: number;
 }
 
 export interface DisplaySpectrum {
@@ -353,6 +362,8 @@ export interface DisplaySpectrum {
   /** The value to plot, in `unit`. */
   level: Float32Array;
   window: WindowName;
+  /** Velocity integrated from acceleration: lines below this frequency are 0 (not shown). */
+  lowCutHz?: number;
 }
 
 /**
@@ -384,11 +395,17 @@ export function spectrumForDisplay(data: ArrayLike<number>, fs: number, opts: Di
   const k1 = Math.min(spec.amp.length - 1, Math.floor(binOf(spec, fMax)));
   // the per-bin quantity that is max-held and plotted
   let value: Float64Array;
+  let lowCutHz: number | undefined;
   let ref = opts.referenceAmplitude;
   if (velocity) {
     const unit = opts.unit ?? "m/s2";
+    const integrated = unitScale(unit).quantity === "acceleration";
+    lowCutHz = integrated ? Math.max(0, opts.velocityLowCutHz ?? VELOCITY_LOW_CUT_HZ) : undefined;
     value = new Float64Array(spec.amp.length);
-    for (let k = k0; k <= k1; k++) value[k] = lineVelocityMmS(spec.amp[k], hzOf(spec, k), unit);
+    for (let k = k0; k <= k1; k++) {
+      const f = hzOf(spec, k);
+      value[k] = lowCutHz !== undefined && f < lowCutHz ? 0 : lineVelocityMmS(spec.amp[k], f, unit);
+    }
     if (!ref) ref = 1;
   } else {
     value = spec.amp;
@@ -411,7 +428,7 @@ export function spectrumForDisplay(data: ArrayLike<number>, fs: number, opts: Di
     db[o] = toDb(value[best] / ref);
     if (velocity) level[o] = value[best];
   }
-  return { hz, db, referenceAmplitude: ref, resolutionHz: 1 / spec.seconds, unit: velocity ? "mm/s" : "dB", level, window };
+  return { hz, db, referenceAmplitude: ref, resolutionHz: 1 / spec.seconds, unit: velocity ? "mm/s" : "dB", level, window, ...(lowCutHz !== undefined ? { lowCutHz } : {}) };
 }
 
 /**

@@ -73,6 +73,23 @@ describe("velocity display spectrum (domain.md §6 integration V = A/(2πf); che
     expect(Math.abs(levelNear(e, 49.3) / 2.54 - 1)).toBeLessThan(0.005);
   });
 
+  it("an accelerometer's DC offset does not become tall false lines near 0 Hz: below the 2 Hz low cut the velocity is 0", () => {
+    // 0.05 m/s² of offset (a sensor bias) plus a 1 m/s² r.m.s. tone at 25 Hz. Without the cut, the flat-top window's
+    // DC leakage divided by 2πf at 0.1–0.4 Hz reads as a false line of several mm/s beside the 25 Hz line's 6.4 mm/s.
+    const x = tone(1, 25);
+    for (let i = 0; i < x.length; i++) x[i] += 0.05;
+    const d = spectrumForDisplay(x, fs, { quantity: "velocity-mm-s", unit: "m/s2", fMaxHz: 1000 });
+    expect(d.lowCutHz).toBe(2); // the lower band edge for machines ≤ 600 r/min, ISO 20816-3 (domain.md §6) [M]
+    let belowCut = 0;
+    for (let i = 0; i < d.hz.length; i++) if (d.hz[i] < 2) belowCut = Math.max(belowCut, d.level[i]);
+    expect(belowCut).toBe(0);
+    expect(Math.abs(levelNear(d, 25) / lineVelocityMmS(Math.SQRT2, 25, "m/s2") - 1)).toBeLessThan(0.005);
+    // the cut can be moved; a velocity sensor needs none (nothing is integrated)
+    const uncut = spectrumForDisplay(x, fs, { quantity: "velocity-mm-s", unit: "m/s2", fMaxHz: 1000, velocityLowCutHz: 0 });
+    expect(Math.max(...Array.from(uncut.level).slice(0, 8))).toBeGreaterThan(1);
+    expect(spectrumForDisplay(tone(2.5, 49.3), fs, { quantity: "velocity-mm-s", unit: "mm/s" }).lowCutHz).toBeUndefined();
+  });
+
   it("max-hold merges points after integration, so the 1/f weighting picks the right bin", () => {
     // Equal acceleration at 20 Hz and 900 Hz: in velocity the 20 Hz line is 45× taller.
     const x = tone(1, 20);

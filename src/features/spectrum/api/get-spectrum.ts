@@ -8,6 +8,8 @@ export interface SpectrumResponse {
   fMin: number;
   fMax: number;
   resolutionHz: number;
+  /** Velocity integrated from acceleration: below this frequency nothing is shown (0). */
+  lowCutHz: number | null;
   decimated: boolean;
   hz: number[];
   min: number[];

@@ -312,6 +312,12 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
             <>
               Resolution <span className="num text-ink">{s.resolutionHz.toPrecision(3)} Hz</span> ·{" "}
               {s.decimated ? <>min/max of {s.hz.length} buckets (zoom in for every bin)</> : <>every bin shown ({s.hz.length})</>}
+              {s.lowCutHz ? (
+                <>
+                  <br />
+                  integrated from acceleration: below <span className="num text-ink">{s.lowCutHz} Hz</span> not shown
+                </>
+              ) : null}
               {overlayCapture && (
                 <>
                   <br />
