@@ -22,9 +22,11 @@ import { siteRoutes } from "./routes/sites.ts";
 import { assetRoutes } from "./routes/assets.ts";
 import { captureRoutes } from "./routes/captures.ts";
 import { findingRoutes } from "./routes/findings.ts";
+import { calendarFeedRoutes } from "./routes/calendar-feed.ts";
+import { redactFeedUrl } from "./plan/feed-links.ts";
 
 /** Route modules, in mount order. Each returns an express Router whose routes declare their permission. */
-const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, captureRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, fleetRoutes];
+const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, captureRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, calendarFeedRoutes, fleetRoutes];
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();
@@ -39,7 +41,7 @@ export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
         logger: pino(pino.destination({ sync: false, minLength: 4096 })),
         autoLogging: { ignore: (req) => !req.url?.startsWith("/api") },
         quietReqLogger: true,
-        serializers: { req: (r) => ({ method: r.method, url: r.url }), res: (r) => ({ status: r.statusCode }) },
+        serializers: { req: (r) => ({ method: r.method, url: redactFeedUrl(r.url) }), res: (r) => ({ status: r.statusCode }) },
       }),
     );
   app.use(express.json({ limit: "2mb" }));

@@ -18,6 +18,8 @@ export interface Config {
   uploadLimitBytes: number;
   workerConcurrency: number;
   loginRateLimit: number;
+  /** Calendar feed fetches per link per 15 minutes (failed fetches per address: 20 times this). */
+  feedRateLimit: number;
 }
 
 const num = (v: string | undefined, d: number) => (v === undefined || v === "" ? d : Number(v));
@@ -60,6 +62,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     uploadLimitBytes: num(env.UPLOAD_LIMIT_MB, 512) * 1024 * 1024,
     workerConcurrency: num(env.WORKER_CONCURRENCY, 2),
     loginRateLimit: num(env.LOGIN_RATE_LIMIT, 10),
+    feedRateLimit: num(env.FEED_RATE_LIMIT, 30),
   };
 }
 

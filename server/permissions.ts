@@ -20,6 +20,8 @@ export const PERMISSIONS = {
   "inspections.plan": ["planner"],
   "inspections.work": ["technician", "planner"],
   "reports.read": ["manager", "planner", "admin"],
+  /** Own calendar feed link (server/plan/feed-links.ts): the open plan for reports.read, a technician's own inspections. */
+  "calendar.subscribe": ["technician", "planner", "manager", "admin"],
   "assets.write": ["admin"],
   "sites.write": ["admin"],
   "gateways.manage": ["admin"],

@@ -5,6 +5,23 @@ export type TokenKind = "invite" | "reset";
 
 export const sha256 = (s: string) => crypto.createHash("sha256").update(s).digest("hex");
 
+export interface PrefixedToken {
+  token: string;
+  prefix: string;
+  hash: string;
+}
+
+/**
+ * A long-lived bearer secret "<tag>_<8 hex>_<secret>" (gateway tokens, calendar feed links). Store only `hash`
+ * (sha256 of the whole token) and `prefix`, which may be shown so people can tell their tokens apart.
+ */
+export function createPrefixedToken(tag: string): PrefixedToken {
+  const prefix = crypto.randomBytes(4).toString("hex");
+  const secret = crypto.randomBytes(32).toString("base64url");
+  const token = `${tag}_${prefix}_${secret}`;
+  return { token, prefix, hash: sha256(token) };
+}
+
 /** A single-use token for a set-password link; only its hash is stored. */
 export async function createUserToken(db: Knex, userId: number, kind: TokenKind, hours: number): Promise<string> {
   const raw = crypto.randomBytes(24).toString("base64url");

@@ -1,9 +1,8 @@
 // Gateway tokens: "bhg_<prefix>_<secret>". Only the sha256 of the whole token is stored; the prefix is kept in
 // clear so an admin can tell which token a device holds ("bhg_3f9a1c0e_…") without the secret.
 
-import crypto from "node:crypto";
 import type { Knex } from "knex";
-import { sha256 } from "../tokens.ts";
+import { createPrefixedToken, sha256 } from "../tokens.ts";
 
 const TOKEN_RE = /^bhg_([0-9a-f]{8})_([A-Za-z0-9_-]{32,})$/;
 
@@ -14,10 +13,7 @@ export interface NewGatewayToken {
 }
 
 export function createGatewayToken(): NewGatewayToken {
-  const prefix = crypto.randomBytes(4).toString("hex");
-  const secret = crypto.randomBytes(32).toString("base64url");
-  const token = `bhg_${prefix}_${secret}`;
-  return { token, prefix, hash: sha256(token) };
+  return createPrefixedToken("bhg");
 }
 
 export interface GatewayRow {

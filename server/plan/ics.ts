@@ -91,6 +91,8 @@ export interface CalendarOptions {
   organizer?: { name: string; email: string };
   now?: Date;
   name?: string;
+  /** Subscription feeds: how often a calendar application should fetch again (RFC 7986 §5.7 REFRESH-INTERVAL). */
+  refreshMinutes?: number;
 }
 
 export const inspectionUid = (id: number, domain: string) => `inspection-${id}@${domain}`;
@@ -138,7 +140,12 @@ function eventLines(i: IcsInspection, opts: CalendarOptions): string[] {
 export function buildCalendar(items: IcsInspection[], opts: CalendarOptions): string {
   const lines = ["BEGIN:VCALENDAR", "VERSION:2.0", "PRODID:-//Barhound//Inspection plan//EN", "CALSCALE:GREGORIAN"];
   if (opts.method) lines.push(`METHOD:${opts.method}`);
-  if (opts.name) lines.push(`NAME:${escapeText(opts.name)}`); // RFC 7986 §5.1
+  if (opts.name) lines.push(`NAME:${escapeText(opts.name)}`, `X-WR-CALNAME:${escapeText(opts.name)}`); // RFC 7986 §5.1; X-WR-CALNAME: common practice
+  if (opts.refreshMinutes) {
+    const every = `PT${Math.max(1, Math.round(opts.refreshMinutes))}M`;
+    // X-PUBLISHED-TTL is the older, non-standard spelling that many calendar applications read (common practice).
+    lines.push(`REFRESH-INTERVAL;VALUE=DURATION:${every}`, `X-PUBLISHED-TTL:${every}`);
+  }
   for (const i of items) lines.push(...eventLines(i, opts));
   lines.push("END:VCALENDAR");
   return lines.map(foldLine).join(CRLF) + CRLF;

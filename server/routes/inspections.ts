@@ -8,8 +8,8 @@ import { audit } from "../audit.ts";
 import { computePriority, conditionClass } from "../plan/priority.ts";
 import { OPEN_STATUSES, TECHNICIAN_TARGETS, assertTransition, type InspectionStatus } from "../plan/workflow.ts";
 import { applyFilters, applySort, baseQuery, filterQuery, findInspection, isoDate, latestAnalysis, listQuery, toInspection, type Inspection, type InspectionRow } from "../plan/store.ts";
-import { mailInspection, calendarDomain, icsInspection } from "../plan/notify.ts";
-import { buildCalendar } from "../plan/ics.ts";
+import { mailInspection } from "../plan/notify.ts";
+import { planCalendar } from "../plan/plan-calendar.ts";
 import { toCsv } from "../plan/csv.ts";
 import { completeBody, inspectionPatchBody, isPastDueDate, PAST_DUE_DATE, scheduleBody, type InspectionPatchBody } from "../../src/shared/schemas/inspections.ts";
 import { attachmentKey, attachmentStore, attachmentUpload, cleanFileName, sniffAttachment } from "../plan/attachments.ts";
@@ -176,12 +176,11 @@ export function inspectionRoutes(ctx: AppContext) {
     res.type("text/csv; charset=utf-8").attachment("inspections.csv").send(csv);
   });
 
-  // A calendar feed of the open plan (planned and in progress), one VEVENT per inspection.
+  // A calendar file of the open plan (planned and in progress), one VEVENT per inspection; the subscription feed
+  // (routes/calendar-feed.ts) serves the same calendar.
   r.get("/inspections.ics", "reports.read", async (req, res) => {
     const q = parseOr400(filterQuery, req.query);
-    const rows: InspectionRow[] = await applySort(applyFilters(baseQuery(db), { ...q, open: true }, req.user!.id), "dueDate").limit(10_000);
-    const items = rows.map((row) => icsInspection(ctx, toInspection(row), row.assignee_email ? { name: row.assignee_name, email: row.assignee_email } : null));
-    const ics = buildCalendar(items, { domain: calendarDomain(ctx), method: "PUBLISH", name: "Barhound inspection plan" });
+    const ics = await planCalendar(ctx, q, req.user!.id);
     res.type("text/calendar; charset=utf-8").attachment("inspections.ics").send(ics);
   });
 

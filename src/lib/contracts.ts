@@ -253,6 +253,18 @@ export interface Gateway {
   active?: boolean;
 }
 
+/** `GET /calendar-feed`: the signed-in user's calendar subscription link, never its secret. */
+export interface CalendarFeedStatus {
+  /** "plan": every open inspection; "assigned": only those assigned to the user. */
+  scope: "plan" | "assigned";
+  link: { prefix: string; createdAt: string; lastUsedAt: string | null } | null;
+}
+/** `POST /calendar-feed`: a new link; `url` is shown this once. */
+export interface IssuedCalendarFeed extends CalendarFeedStatus {
+  token: string;
+  url: string;
+}
+
 export interface CaughtMail {
   id: number;
   receivedAt: string;

@@ -9,6 +9,7 @@ import { ErrorNote } from "../../components/Alert.tsx";
 import { InspectionStatusPill, PriorityTag } from "../../components/InspectionBits.tsx";
 import { PageLoading } from "../../components/Spinner.tsx";
 import { SafetyCaution } from "../../components/SafetyCaution.tsx";
+import { CalendarFeedPanel } from "../../components/CalendarFeedPanel.tsx";
 import type { Capture, Inspection } from "../../lib/contracts.ts";
 import { formatDate, formatDateTime } from "../../lib/format.ts";
 import { isOverdue, OUTCOMES } from "../../lib/inspections.ts";
@@ -19,7 +20,7 @@ import { CompleteDialog } from "./CompleteDialog.tsx";
 const CAPTURE_STATUS: Record<string, string> = { received: "Received", queued: "Queued", analysing: "Analysing", analysed: "Analysed", failed: "Failed" };
 
 export default function MyWorkPage() {
-  const { user } = useSession();
+  const { user, can } = useSession();
   const open = useQuery(myInspectionsQueryOptions("open"));
   const done = useQuery(myInspectionsQueryOptions("done"));
   const [completing, setCompleting] = useState<Inspection | null>(null);
@@ -66,7 +67,10 @@ export default function MyWorkPage() {
             )}
           </Section>
         </div>
-        <MyCaptures />
+        <div className="flex flex-col gap-4">
+          <MyCaptures />
+          {can("calendar.subscribe") && <CalendarFeedPanel />}
+        </div>
       </div>
       <CompleteDialog inspection={completing} onClose={() => setCompleting(null)} />
     </Page>

@@ -9,11 +9,13 @@ import { GradeBadge } from "../../components/GradeBadge.tsx";
 import { ZoneBadge } from "../../components/ZoneBadge.tsx";
 import { InspectionStatusPill, PriorityTag } from "../../components/InspectionBits.tsx";
 import { EmptyState } from "../../components/EmptyState.tsx";
+import { CalendarFeedPanel } from "../../components/CalendarFeedPanel.tsx";
 import { apiUrl } from "../../lib/api.ts";
 import type { Finding, Inspection, InspectionCandidate } from "../../lib/contracts.ts";
 import { formatDate, formatDateTime } from "../../lib/format.ts";
 import { parseGrade } from "../../lib/grades.ts";
 import { isOverdue, STATUS_LABEL } from "../../lib/inspections.ts";
+import { useSession } from "../../lib/session.ts";
 import { candidatesQueryOptions, inspectionsQueryOptions, techniciansQueryOptions } from "./api/inspections.ts";
 import { ScheduleDialog } from "./ScheduleDialog.tsx";
 import { InspectionDialog } from "./InspectionDialog.tsx";
@@ -28,6 +30,7 @@ export default function PlanPage() {
   const view = sp.get("view") === "month" ? "month" : "list";
   const { year, month } = parseMonth(sp.get("month"));
   const technicians = useQuery(techniciansQueryOptions());
+  const { can } = useSession();
 
   const setView = (v: "list" | "month") =>
     setSp((prev) => {
@@ -104,6 +107,8 @@ export default function PlanPage() {
             <MonthView year={year} month={month} filters={list.filters} onMonth={shiftMonth} onOpen={setOpened} />
           )}
         </Section>
+
+        {can("calendar.subscribe") && <CalendarFeedPanel className="max-w-2xl" />}
       </div>
 
       <ScheduleDialog open={!!scheduling} finding={scheduling?.finding} onClose={() => setScheduling(null)} />
