@@ -106,7 +106,9 @@ export function inspectionRoutes(ctx: AppContext) {
     res.json({ from: q.from, to: q.to, total: rows.length, days });
   });
 
-  // Findings that need action and have no open inspection yet, with the priority the rule would give.
+  // Findings that need action and have no open inspection yet, with the priority the rule would give. One row per
+  // motor and kind: the latest such finding, the earlier ones of the same motor and kind folded into it (a motor that
+  // went R2 → R3 → R4 needs one visit, not three). Open inspections already on the motor are given as a hint.
   r.get("/inspections/candidates", "inspections.plan", async (req, res) => {
     const siteId = req.query.siteId === undefined ? undefined : parseOr400(idParam, req.query.siteId);
     const q = db("findings as f")
@@ -114,16 +116,44 @@ export function inspectionRoutes(ctx: AppContext) {
       .join("areas as ar", "ar.id", "a.area_id")
       .join("sites as s", "s.id", "ar.site_id")
       .whereIn("f.status", ["open", "confirmed", "remeasure"])
-      .whereNotExists(db("inspections as i").whereRaw("i.finding_id = f.id").whereIn("i.status", OPEN_STATUSES as string[]))
+      // covered: an open inspection for this finding or a later one of the same motor and kind
+      .whereNotExists(
+        db("inspections as i")
+          .join("findings as f2", "f2.id", "i.finding_id")
+          .whereRaw("f2.asset_id = f.asset_id and f2.kind = f.kind and f2.created_at >= f.created_at")
+          .whereIn("i.status", OPEN_STATUSES as string[]),
+      )
       .select("f.*", "a.tag as asset_tag", "a.name as asset_name", "a.criticality", "s.id as site_id", "s.name as site_name", "ar.name as area_name")
-      .orderBy("f.created_at", "desc")
+      .orderBy([{ column: "f.created_at", order: "desc" }, { column: "f.id", order: "desc" }])
       .limit(500);
     if (siteId) q.where("s.id", siteId);
     const rows = await q;
-    const items = [];
+    const groups = new Map<string, { lead: (typeof rows)[number]; earlier: (typeof rows)[number][] }>();
     for (const f of rows) {
-      const c = await conditionOf(db, f.asset_id, f);
-      items.push({
+      const key = `${f.asset_id}:${f.kind}`;
+      const g = groups.get(key);
+      if (g) g.earlier.push(f);
+      else groups.set(key, { lead: f, earlier: [] });
+    }
+    const assetIds = [...new Set(rows.map((f) => f.asset_id as number))];
+    const [latest, open] = assetIds.length
+      ? await Promise.all([
+          db("analyses")
+            .whereIn("asset_id", assetIds)
+            .where({ is_current: true })
+            .distinctOn("asset_id")
+            .orderBy([{ column: "asset_id" }, { column: "taken_at", order: "desc" }, { column: "id", order: "desc" }])
+            .select("asset_id", "rotor_grade", "rotor_assessable", "vibration_zone"),
+          db("inspections").whereIn("asset_id", assetIds).whereIn("status", OPEN_STATUSES as string[]).orderBy("due_date").select("id", "asset_id", "title", "status", db.raw("to_char(due_date, 'YYYY-MM-DD') as due_date")),
+        ])
+      : [[], []];
+    const latestByAsset = new Map(latest.map((a) => [a.asset_id as number, a]));
+    const worse = (a: string | null | undefined, b: string | null | undefined) => (!a ? b : !b ? a : a > b ? a : b); // R1<R5, A<D
+    const items = [...groups.values()].map(({ lead: f, earlier }) => {
+      const a = latestByAsset.get(f.asset_id);
+      const grade = worse(f.kind === "rotor" ? f.level : null, a?.rotor_assessable ? a.rotor_grade : null) ?? null;
+      const zone = worse(f.kind === "vibration" ? f.level : null, a?.vibration_zone) ?? null;
+      return {
         findingId: f.id,
         assetId: f.asset_id,
         assetTag: f.asset_tag,
@@ -137,12 +167,16 @@ export function inspectionRoutes(ctx: AppContext) {
         summary: f.summary,
         status: f.status,
         createdAt: f.created_at,
-        rotorGrade: c.grade,
-        vibrationZone: c.zone,
-        condition: conditionClass(c.grade, c.zone),
-        suggestedPriority: computePriority({ grade: c.grade, zone: c.zone, criticality: f.criticality }),
-      });
-    }
+        rotorGrade: grade,
+        vibrationZone: zone,
+        condition: conditionClass(grade, zone),
+        suggestedPriority: computePriority({ grade, zone, criticality: f.criticality }),
+        earlierFindings: earlier.map((e) => ({ id: e.id, level: e.level, status: e.status, createdAt: e.created_at })),
+        openInspections: open
+          .filter((i) => i.asset_id === f.asset_id)
+          .map((i) => ({ id: i.id, title: i.title, status: i.status, dueDate: i.due_date as string })),
+      };
+    });
     const rank = { urgent: 0, high: 1, normal: 2, low: 3 };
     items.sort((a, b) => rank[a.suggestedPriority] - rank[b.suggestedPriority]);
     res.json({ items });

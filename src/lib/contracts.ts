@@ -185,6 +185,10 @@ export interface InspectionCandidate {
   status: string;
   createdAt: string;
   suggestedPriority: Priority;
+  /** Earlier findings of the same motor and kind still needing action, folded into this row (newest first). */
+  earlierFindings: { id: number; level: GradeValue; status: string; createdAt: string }[];
+  /** Open inspections already on the motor (any finding or none), soonest due first. */
+  openInspections: { id: number; title: string; status: InspectionStatus; dueDate: string }[];
 }
 
 export type InspectionStatus = "planned" | "in_progress" | "done" | "cancelled";

@@ -220,6 +220,32 @@ describe("candidates", () => {
     expect(c).toMatchObject({ assetTag: "INSPT-M1", level: "R4", suggestedPriority: "high" });
     expect(res.body.items.some((x: { findingId: number }) => x.findingId === ids.findingR5)).toBe(false);
   });
+
+  it("folds a motor's successive findings of one kind into one row; one inspection covers them all", async () => {
+    const [m] = await env.db("assets").insert({ area_id: ids.area, tag: "INSPT-F1", name: "Pump INSPT-F1", criticality: "medium", rated_rpm: 1480, poles: 4, rated_kw: 90 }).returning("id");
+    const r2 = await finding(m.id, "rotor", "R2");
+    const r3 = await finding(m.id, "rotor", "R3");
+    const zoneC = await finding(m.id, "vibration", "C");
+    type Candidate = { findingId: number; assetId: number; kind: string; earlierFindings: { id: number; level: string }[]; openInspections: { id: number; title: string; status: string; dueDate: string }[] };
+    const mine = async () => ((await agents.planner.get(`/api/inspections/candidates?siteId=${ids.site}`)).body.items as Candidate[]).filter((c) => c.assetId === m.id);
+    let rows = await mine();
+    expect(rows.map((c) => [c.kind, c.findingId]).sort()).toEqual([["rotor", r3], ["vibration", zoneC]]);
+    expect(rows.find((c) => c.kind === "rotor")!.earlierFindings).toMatchObject([{ id: r2, level: "R2" }]);
+    expect(rows.every((c) => c.openInspections.length === 0)).toBe(true);
+
+    // An inspection for the latest rotor finding covers the earlier one too; the vibration finding still waits.
+    const i = await plan({ assetId: m.id, findingId: r3, title: "Rotor check INSPT-F1" });
+    rows = await mine();
+    expect(rows.map((c) => c.findingId)).toEqual([zoneC]);
+    expect(rows[0].openInspections).toEqual([{ id: i.id, title: "Rotor check INSPT-F1", status: "planned", dueDate: isoDay(14) }]);
+
+    // A later, worse rotor finding needs a decision again, with the inspection already planned as a hint.
+    const r4 = await finding(m.id, "rotor", "R4");
+    rows = await mine();
+    const rotor = rows.find((c) => c.kind === "rotor")!;
+    expect(rotor).toMatchObject({ findingId: r4, earlierFindings: [], openInspections: [{ id: i.id }] });
+    expect((await agents.planner.patch(`/api/inspections/${i.id}`).send({ status: "cancelled" })).status).toBe(200);
+  });
 });
 
 describe("status workflow", () => {

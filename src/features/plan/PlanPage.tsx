@@ -152,7 +152,26 @@ function NeedsAction({ onSchedule }: { onSchedule: (f: Finding) => void }) {
     { id: "motor", header: "Motor", cell: (c) => (<span><Link to={`/motors/${c.assetId}`} className="num font-medium">{c.assetTag}</Link> <span className="text-ink-muted">{c.assetName}</span></span>) },
     { id: "site", header: "Site", cell: (c) => c.siteName, hideBelow: "md" },
     { id: "level", header: "Now", cell: (c) => (parseGrade(c.level) ? <GradeBadge compact grade={c.level} /> : <ZoneBadge zone={c.level} withWord />) },
-    { id: "summary", header: "Finding", cell: (c) => <span className="line-clamp-2">{c.summary}</span> },
+    {
+      id: "summary",
+      header: "Finding",
+      cell: (c) => (
+        <div>
+          <span className="line-clamp-2">{c.summary}</span>
+          {c.earlierFindings.length > 0 && (
+            <p className="text-caption text-ink-muted">
+              Also covers {c.earlierFindings.length === 1 ? "an earlier finding" : `${c.earlierFindings.length} earlier findings`}:{" "}
+              {c.earlierFindings.map((e) => `${e.level} (${formatDate(e.createdAt)})`).join(", ")}
+            </p>
+          )}
+          {c.openInspections.map((i) => (
+            <p key={i.id} className="text-caption text-ink-muted">
+              Already open on this motor: {i.title} ({i.status === "in_progress" ? "in progress" : i.status}, due <span className="num">{formatDate(i.dueDate)}</span>)
+            </p>
+          ))}
+        </div>
+      ),
+    },
     { id: "state", header: "Verdict", cell: (c) => <span className="text-caption text-ink-muted">{VERDICT_STATE[c.status] ?? c.status}</span>, hideBelow: "lg" },
     { id: "raised", header: "Raised", cell: (c) => <span className="num text-caption text-ink-muted">{formatDateTime(c.createdAt)}</span>, hideBelow: "md" },
     { id: "suggest", header: "Suggested", cell: (c) => <PriorityTag priority={c.suggestedPriority} /> },
