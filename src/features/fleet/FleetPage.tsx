@@ -17,6 +17,7 @@ import { useFleet, type FleetHealth, type FleetMotor, type GradeCounts } from ".
 import { GRADE_KEYS, GradeBar, GradeBarLabels, GradePatterns, GradeSwatch, LONG, SHORT } from "./components/GradeBar.tsx";
 import { LoadHistogram } from "./components/LoadHistogram.tsx";
 import { useSites } from "../../lib/sites.ts";
+import { CalendarFeedPanel } from "../../components/CalendarFeedPanel.tsx";
 
 export default function FleetPage() {
   const [siteId, setSiteId] = useState<number | null>(null);
@@ -133,6 +134,8 @@ export default function FleetPage() {
             <Overdue overdue={f.overdue} />
           </Section>
         </div>
+        {/* Planners have the plan's own screen (and this panel there); managers and admins follow it from here. */}
+        {can("calendar.subscribe") && !can("inspections.plan") && <CalendarFeedPanel className="max-w-2xl" />}
       </div>
     </Page>
   );
