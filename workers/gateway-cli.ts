@@ -3,6 +3,11 @@
 //
 //   npm run gateway -- --file sample-data/pump-7.csv --asset 12 --token bhg_… [--url http://localhost:5180]
 //                      [--chunk-kb 64] [--point 3] [--sample-rate 10000] [--taken-at 2026-12-01T08:30:00Z]
+//                      [--state-dir DIR] [--fresh]
+//
+// A run that is killed (power cut, crash, Ctrl-C) leaves a state file (./gateway-state.ts); the same command run again
+// asks the server where the stream stands and goes on from the server's last acknowledged chunk.
+// Test hook: BARHOUND_TEST_GATEWAY_ACK_DELAY_MS (pause after each acknowledged chunk), honoured only when NODE_ENV=test.
 
 import fs from "node:fs/promises";
 import path from "node:path";
@@ -10,7 +15,21 @@ import { parseArgs } from "node:util";
 import { parseCapture, isCaptureParseError } from "../src/engine/parse/index.ts";
 import { captureToF32Frames } from "../server/gateway/assemble.ts";
 import { streamCapture, StreamRefused } from "../server/gateway/stream-client.ts";
-import { CHANNEL_KINDS, type StreamChannel } from "../server/gateway/protocol.ts";
+import { CHANNEL_KINDS, frameBytes, type StreamChannel, type StreamError } from "../server/gateway/protocol.ts";
+import {
+  STATE_FORMAT,
+  defaultStateDir,
+  fileChange,
+  loadState,
+  removeStaleTemps,
+  removeState,
+  sha256,
+  stateDirProblem,
+  statePath,
+  stateWriter,
+  tokenPrefix,
+  type GatewayState,
+} from "./gateway-state.ts";
 
 const USAGE = `Usage: npm run gateway -- --file FILE --asset ID --token TOKEN [--url URL] [--chunk-kb 64]
   --file         a capture file (.csv or .wav)
@@ -20,7 +39,10 @@ const USAGE = `Usage: npm run gateway -- --file FILE --asset ID --token TOKEN [-
   --chunk-kb     chunk size in KiB (default 64)
   --point        measurement point id (optional)
   --sample-rate  sample rate in Hz, for a CSV without a time column or sample-rate comment
-  --taken-at     when the capture was recorded (ISO 8601; default now)`;
+  --taken-at     when the capture was recorded (ISO 8601; default now)
+  --state-dir    where the state of an interrupted stream is kept (default .data/gateway-state, or
+                 BARHOUND_GATEWAY_STATE_DIR); the same command run again resumes the stream
+  --fresh        ignore a saved interrupted stream and stream the file from the start`;
 
 function fail(message: string): never {
   process.stderr.write(`gateway: ${message}\n`);
@@ -38,6 +60,7 @@ function positiveInt(value: string | undefined, name: string): number | undefine
 function progressBar(label: string) {
   const tty = process.stderr.isTTY;
   let lastPct = -1;
+  let nextMark = 25; // plain lines at 25, 50, 75 and 100 %, also when a chunk jumps past a mark
   return {
     update(done: number, total: number) {
       const pct = Math.floor((done / total) * 100);
@@ -47,7 +70,10 @@ function progressBar(label: string) {
       const filled = Math.round((pct / 100) * width);
       const line = `${label} [${"#".repeat(filled)}${"-".repeat(width - filled)}] ${String(pct).padStart(3)} %  ${(done / 1024).toFixed(0)}/${(total / 1024).toFixed(0)} KiB`;
       if (tty) process.stderr.write(`\r${line}`);
-      else if (pct % 25 === 0) process.stderr.write(`${line}\n`);
+      else if (pct >= nextMark) {
+        process.stderr.write(`${line}\n`);
+        nextMark = (Math.floor(pct / 25) + 1) * 25;
+      }
     },
     note(text: string) {
       process.stderr.write(`${tty ? "\n" : ""}${text}\n`);
@@ -67,10 +93,12 @@ async function main() {
         asset: { type: "string" },
         token: { type: "string" },
         url: { type: "string", default: "http://localhost:5180" },
-        "chunk-kb": { type: "string", default: "64" },
+        "chunk-kb": { type: "string" },
         point: { type: "string" },
         "sample-rate": { type: "string" },
         "taken-at": { type: "string" },
+        "state-dir": { type: "string" },
+        fresh: { type: "boolean", default: false },
         help: { type: "boolean", short: "h" },
       },
     }));
@@ -84,12 +112,20 @@ async function main() {
   const token = values.token ?? process.env.BARHOUND_GATEWAY_TOKEN;
   if (!values.file || !values.asset || !token) fail(`--file, --asset and --token are required.\n${USAGE}`);
   const assetId = positiveInt(values.asset, "asset")!;
-  const chunkKb = positiveInt(values["chunk-kb"], "chunk-kb")!;
+  const chunkKb = positiveInt(values["chunk-kb"], "chunk-kb") ?? 64;
   if (chunkKb > 2048) fail("--chunk-kb may be at most 2048 (the server takes chunks up to 2 MiB).");
 
+  const url = values.url!.replace(/\/+$/, "");
+  const measurementPointId = positiveInt(values.point, "point");
+  const stateDir = values["state-dir"] ? path.resolve(values["state-dir"]) : defaultStateDir();
+  const dirProblem = stateDirProblem(stateDir);
+  if (dirProblem) fail(dirProblem);
+
   let bytes: Uint8Array;
+  let mtimeMs: number;
   try {
     bytes = await fs.readFile(values.file);
+    mtimeMs = (await fs.stat(values.file)).mtimeMs;
   } catch (err) {
     fail(`cannot read ${values.file}: ${(err as NodeJS.ErrnoException).code === "ENOENT" ? "no such file" : (err as Error).message}`);
   }
@@ -110,34 +146,164 @@ async function main() {
   }));
   const frames = captureToF32Frames(capture);
   const samples = capture.channels[0].data.length;
-  const bar = progressBar(path.basename(values.file));
+  const fileName = path.basename(values.file);
+  const fileId = { path: path.resolve(values.file), size: bytes.length, mtimeMs, sha256: sha256(bytes) };
+  const note = (text: string) => process.stderr.write(`gateway: ${text}\n`);
+  const bar = progressBar(fileName);
   process.stderr.write(
     `gateway: ${channels.length} channel(s) (${channels.map((c) => c.name).join(", ")}), ${samples} samples at ${sampleRate} Hz ` +
-      `(${(samples / sampleRate).toFixed(1)} s) → ${values.url}\n`,
+      `(${(samples / sampleRate).toFixed(1)} s) → ${url}\n`,
   );
+
+  // A saved interrupted stream of this file, motor and server, if it can be resumed.
+  const stateFile = statePath(stateDir, { url, filePath: values.file, assetId, measurementPointId });
+  await removeStaleTemps(stateFile);
+  const loaded = await loadState(stateFile);
+  let saved: GatewayState | null = null;
+  if (loaded && "unreadable" in loaded) note(`ignoring the state file ${stateFile}: ${loaded.unreadable}. Starting a new stream.`);
+  else if (loaded) {
+    const s = loaded.state;
+    const was = `stream ${s.sessionId} (${s.ackedChunks} of ${s.totalChunks} chunks acknowledged)`;
+    const change = fileChange(s.file, fileId);
+    const settings = settingsChange(s.begin, { sampleRate, channels, takenAt: values["taken-at"] });
+    if (values.fresh) note(`--fresh: not resuming the interrupted ${was}; streaming ${fileName} from the start.`);
+    else if (change) note(`${fileName} changed since the interrupted run (${change}); not resuming ${was}, starting a new stream.`);
+    else if (settings) note(`${settings} since the interrupted run; not resuming ${was}, starting a new stream.`);
+    else saved = s;
+  }
+  if (saved) {
+    note(`found the interrupted stream ${saved.sessionId} (${saved.ackedChunks} of ${saved.totalChunks} chunks acknowledged at ${saved.updatedAt}); asking the server where to resume.`);
+    const fb = frameBytes(channels.length, "f32le"); // the client rounds chunks down to whole frames
+    if (values["chunk-kb"] !== undefined && Math.max(fb, Math.floor((chunkKb * 1024) / fb) * fb) !== saved.chunkBytes)
+      note(`keeping the interrupted run's chunks of ${saved.chunkBytes} bytes (--chunk-kb ${chunkKb} applies to new streams).`);
+  }
+
+  const takenAt = saved?.begin.takenAt ?? values["taken-at"] ?? new Date().toISOString();
+  const begin = { assetId, ...(measurementPointId !== undefined ? { measurementPointId } : {}), sampleRate, channels, sampleFormat: "f32le" as const, takenAt };
+  // Set once the server has begun (or resumed) a session; assigned in callbacks, hence the widened type.
+  let writer = null as ReturnType<typeof stateWriter> | null;
+  let stateProblemTold = false;
+  const checkStateWrites = () => {
+    const failure = writer?.takeFailure();
+    if (failure && !stateProblemTold) {
+      stateProblemTold = true;
+      bar.note(`gateway: note: cannot save the stream state in ${stateDir} (${failure.message}); if this run is interrupted, the next one starts over.`);
+    }
+  };
+  // Ctrl-C or a polite kill: save where the stream stands, then leave. (A hard kill leaves the last periodic save.)
+  for (const [signal, code] of [["SIGINT", 130], ["SIGTERM", 143]] as const)
+    process.once(signal, () => {
+      bar.done();
+      if (!writer) {
+        process.stderr.write(`\ngateway: interrupted before the server began the stream; nothing to resume.\n`);
+        process.exit(code);
+      }
+      try {
+        writer.flushSync();
+        process.stderr.write(
+          `\ngateway: interrupted after ${writer.state.ackedChunks} of ${writer.state.totalChunks} chunks; run the same command again to resume stream ${writer.state.sessionId}.\n`,
+        );
+      } catch (err) {
+        process.stderr.write(`\ngateway: interrupted; the stream state could not be saved (${(err as Error).message}).\n`);
+      }
+      process.exit(code);
+    });
+
+  const testDelayMs = process.env.NODE_ENV === "test" ? Number(process.env.BARHOUND_TEST_GATEWAY_ACK_DELAY_MS) || 0 : 0;
 
   try {
     const result = await streamCapture({
-      url: values.url!,
+      url,
       token,
-      assetId,
-      measurementPointId: positiveInt(values.point, "point"),
-      sampleRate,
-      channels,
-      sampleFormat: "f32le",
+      ...begin,
       frames,
-      takenAt: values["taken-at"] ?? new Date().toISOString(),
-      chunkBytes: chunkKb * 1024,
-      onProgress: (p) => bar.update(p.ackedBytes, p.totalBytes),
+      chunkBytes: saved?.chunkBytes ?? chunkKb * 1024,
+      ...(saved ? { resumeSessionId: saved.sessionId } : {}),
+      onResumeRefused: (error) => bar.note(`gateway: ${resumeRefusal(saved!, error, tokenPrefix(token))}`),
+      onBegin: async ({ sessionId, nextSeq, resumed, chunkBytes, totalChunks }) => {
+        if (saved && resumed && sessionId === saved.sessionId && !writer)
+          note(`resuming stream ${sessionId} at chunk ${nextSeq} of ${totalChunks} (the server's count; the state file had ${saved.ackedChunks}).`);
+        if (writer?.state.sessionId === sessionId) return writer.progress(nextSeq);
+        const now = new Date().toISOString();
+        const state: GatewayState = {
+          format: STATE_FORMAT,
+          sessionId,
+          url,
+          tokenPrefix: tokenPrefix(token),
+          file: fileId,
+          begin,
+          chunkBytes,
+          totalChunks,
+          ackedChunks: nextSeq,
+          startedAt: resumed && saved ? saved.startedAt : now,
+          updatedAt: now,
+        };
+        writer = stateWriter(stateFile, state);
+        await writer.save(state); // before any chunk is sent, so a kill from here on can resume
+        checkStateWrites();
+      },
+      onProgress: async (p) => {
+        bar.update(p.ackedBytes, p.totalBytes);
+        writer?.progress(p.seq + 1);
+        checkStateWrites();
+        if (testDelayMs) await new Promise((r) => setTimeout(r, testDelayMs));
+      },
       onRetry: ({ attempt, error }) => bar.note(`gateway: ${error.message.replace(/\.?$/, ".")} Retrying (attempt ${attempt}); the stream goes on where the server left off.`),
     });
     bar.done();
-    if (result.resumedAt.length) process.stderr.write(`gateway: resumed ${result.resumedAt.length} time(s), at chunk(s) ${result.resumedAt.join(", ")}.\n`);
-    process.stderr.write(`gateway: capture ${result.captureId} ${result.status} (${result.totalChunks} chunks).\n`);
+    if (writer) await writer.remove();
+    else await removeState(stateFile);
+    if (result.alreadyEnded) {
+      note(
+        `the server had already finished stream ${result.sessionId} as capture ${result.captureId} (${result.status}); nothing was sent again. ` +
+          `Use --fresh to stream ${fileName} once more.`,
+      );
+    } else {
+      if (result.resumedAt.length) note(`resumed ${result.resumedAt.length} time(s), at chunk(s) ${result.resumedAt.join(", ")}.`);
+      note(`capture ${result.captureId} ${result.status} (${result.totalChunks} chunks).`);
+    }
     process.stdout.write(`${result.captureId}\n`);
   } catch (err) {
     bar.done();
-    fail(err instanceof StreamRefused ? `the server refused the stream: ${err.message}` : (err as Error).message);
+    if (writer) await writer.save(writer.state); // the latest count, for the next run's messages
+    const refused = err instanceof StreamRefused ? err.error : null;
+    let text = refused ? `the server refused the stream: ${refused.message}` : (err as Error).message;
+    const pending = writer?.state ?? saved; // the stream a next run would resume
+    if (refused?.code === "revoked" && pending)
+      text +=
+        ` The interrupted stream ${pending.sessionId} (${pending.ackedChunks} of ${pending.totalChunks} chunks acknowledged) was not resumed;` +
+        ` with a new token the file is streamed again from the start.`;
+    else if (pending) text += ` Run the same command again to resume stream ${pending.sessionId} (state in ${stateFile}).`;
+    fail(text);
+  }
+}
+
+/** What differs in the begin parameters from the saved stream's ("the sample rate is now 5000 Hz (was 10000 Hz)"), or null. */
+function settingsChange(saved: GatewayState["begin"], now: { sampleRate: number; channels: StreamChannel[]; takenAt?: string }): string | null {
+  if (saved.sampleRate !== now.sampleRate) return `the sample rate is now ${now.sampleRate} Hz (was ${saved.sampleRate} Hz)`;
+  if (JSON.stringify(saved.channels) !== JSON.stringify(now.channels)) return "the channel descriptions changed";
+  if (now.takenAt !== undefined && Date.parse(now.takenAt) !== Date.parse(saved.takenAt)) return `--taken-at is now ${now.takenAt} (was ${saved.takenAt})`;
+  return null;
+}
+
+/** One line on why the saved stream is not resumed (a new one is begun after it). */
+function resumeRefusal(saved: GatewayState, error: StreamError, nowPrefix: string | null): string {
+  const id = saved.sessionId;
+  const then = `${saved.ackedChunks} of ${saved.totalChunks} chunks were acknowledged`;
+  switch (error.code) {
+    case "unknown-session": {
+      const other = saved.tokenPrefix && nowPrefix && saved.tokenPrefix !== nowPrefix;
+      const why = other
+        ? `it was begun with token ${saved.tokenPrefix}_…, this run uses ${nowPrefix}_…`
+        : "it was begun with another gateway's token, or removed";
+      return `the server does not know the interrupted stream ${id} (${why}); starting a new stream.`;
+    }
+    case "session-closed":
+      return /deleted/.test(error.message)
+        ? `the server finished the interrupted stream ${id}, but its capture has since been deleted; starting a new stream.`
+        : `the server has given up the interrupted stream ${id} (no progress for too long; ${then}); starting a new stream.`;
+    default:
+      return `the server cannot resume the interrupted stream ${id} (${error.message.replace(/\.$/, "")}); starting a new stream.`;
   }
 }
 

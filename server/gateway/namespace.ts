@@ -162,8 +162,9 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
             `the resume asks for motor ${msg.assetId} with ${msg.channels.length} channel(s), ${msg.sampleFormat} at ${msg.sampleRate} Hz.`,
           { sessionId: s.id },
         );
-      // An ended session answers with its final nextSeq; "end" then re-acknowledges its capture.
-      return { sessionId: s.id, nextSeq: s.next_seq };
+      // An ended session answers with its final nextSeq; "end" then re-acknowledges its capture. The extra fields tell
+      // a gateway restarted from saved state where the server stands; clients that do not know them ignore them.
+      return { sessionId: s.id, nextSeq: s.next_seq, status: s.status, bytesReceived: s.bytes_received, captureId: s.capture_id };
     }
 
     const asset = await db("assets as a").join("areas as ar", "ar.id", "a.area_id").where("a.id", msg.assetId).first("a.id", "a.tag", "ar.site_id");

@@ -6,6 +6,9 @@
 //
 //   begin { assetId, measurementPointId?, sampleRate, channels, sampleFormat, takenAt?, resumeSessionId? }
 //     → { sessionId, nextSeq }                      nextSeq = 0 for a new session, the next chunk to send on resume
+//     → { sessionId, nextSeq, status, bytesReceived, captureId }   on resume: where the server stands ("where am I"),
+//                                                   so a gateway restarted from a saved state can check the offset and
+//                                                   see a stream that already ended (captureId) before sending anything
 //   chunk { sessionId, seq, data }                  data: the interleaved frames, little-endian, whole frames only
 //     → { seq, duplicate? }                         duplicate: this chunk was already stored, it was not appended again
 //   end { sessionId, totalChunks }
@@ -98,6 +101,12 @@ export interface StreamError {
 export interface BeginAck {
   sessionId: string;
   nextSeq: number;
+  /** Only in the answer to a resume (older servers leave these out): the session's state on the server. */
+  status?: "open" | "ended";
+  /** Frames stored so far, in bytes (resume only): a gateway checks that nextSeq chunks of its size make this. */
+  bytesReceived?: number;
+  /** The capture an ended session became (resume only); null while open, or when that capture was deleted. */
+  captureId?: number | null;
 }
 export interface ChunkAck {
   seq: number;

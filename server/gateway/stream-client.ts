@@ -1,6 +1,10 @@
 // A gateway-side client for the stream protocol (./protocol.ts): what the command-line gateway runs, and what the
 // tests drive. It sends a capture's frames in numbered chunks with a few in flight, and when the connection drops it
 // reconnects, resumes the session (begin with resumeSessionId) and goes on from the chunk the server asks for.
+//
+// A gateway that was restarted passes the session it saved (`resumeSessionId`, with the same chunk size): the server's
+// answer says where it stands, and the stream goes on from there, or, when the server cannot resume it (abandoned,
+// another gateway's, a different layout), `onResumeRefused` is told and a new session is begun.
 
 import { io, type Socket } from "socket.io-client";
 import {
@@ -28,8 +32,17 @@ export interface StreamCaptureOptions {
   /** Interleaved frames, little-endian. */
   frames: Uint8Array;
   takenAt?: string;
-  /** Chunk size in bytes, rounded down to whole frames (default 64 KiB). */
+  /** Chunk size in bytes, rounded down to whole frames (default 64 KiB). A resumed session needs the size it began with. */
   chunkBytes?: number;
+  /** A session begun by an earlier run of the gateway (saved state): resume it instead of beginning a new one. */
+  resumeSessionId?: string;
+  /**
+   * The server cannot resume `resumeSessionId` (unknown to this gateway, abandoned, ended with its capture deleted, or
+   * its stored bytes do not fit this capture's chunks): told why, then a new session is begun on the same connection.
+   */
+  onResumeRefused?: (error: StreamError) => void;
+  /** Told each begin answer before any chunk is sent (awaited: a gateway saves the session id here). */
+  onBegin?: (p: { sessionId: string; nextSeq: number; resumed: boolean; chunkBytes: number; totalChunks: number }) => void | Promise<void>;
   /** Chunks sent before waiting for the oldest ack (default 4). */
   window?: number;
   /** Reconnect attempts after a dropped connection before giving up (default 10). */
@@ -37,7 +50,8 @@ export interface StreamCaptureOptions {
   retryDelayMs?: number;
   /** How long to wait for an ack before treating the connection as dead (default 30 s). */
   ackTimeoutMs?: number;
-  onProgress?: (p: { ackedBytes: number; totalBytes: number; seq: number; totalChunks: number }) => void;
+  /** After each acknowledged chunk; awaited, so a slow callback slows the stream. */
+  onProgress?: (p: { ackedBytes: number; totalBytes: number; seq: number; totalChunks: number }) => void | Promise<void>;
   /** Told about each reconnect; `error` is what broke the previous connection. */
   onRetry?: (p: { attempt: number; error: Error }) => void;
   /** Test hook: called after each ack with a function that cuts the connection the way a network fault would. */
@@ -49,8 +63,12 @@ export interface StreamCaptureResult {
   status: string;
   sessionId: string;
   totalChunks: number;
-  /** nextSeq the server gave on each resume. */
+  /** nextSeq the server gave on each resume after a dropped connection. */
   resumedAt: number[];
+  /** nextSeq the server gave when `resumeSessionId` was resumed; undefined when a new session was begun. */
+  restartedAt?: number;
+  /** `resumeSessionId` had already ended on the server: nothing was sent, the capture is the one it became. */
+  alreadyEnded?: boolean;
 }
 
 /** The server refused something; retrying the same thing will not help. */
@@ -73,7 +91,10 @@ export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamC
   const chunkAt = (seq: number) => opts.frames.subarray(seq * chunkBytes, Math.min((seq + 1) * chunkBytes, opts.frames.length));
   const retries = opts.retries ?? 10;
   const resumedAt: number[] = [];
-  let sessionId: string | undefined;
+  let sessionId: string | undefined = opts.resumeSessionId;
+  // True until the server has answered the resume of the saved session; its refusal then means "begin anew".
+  let restartPending = sessionId !== undefined;
+  let restartedAt: number | undefined;
 
   for (let attempt = 0; ; attempt++) {
     const socket = io(opts.url.replace(/\/+$/, "") + GATEWAY_NAMESPACE, {
@@ -85,17 +106,38 @@ export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamC
     try {
       await connected(socket);
       const req = requester(socket, opts.ackTimeoutMs ?? 30_000);
-      const began = await req<BeginAck>("begin", {
-        assetId: opts.assetId,
-        ...(opts.measurementPointId !== undefined ? { measurementPointId: opts.measurementPointId } : {}),
-        sampleRate: opts.sampleRate,
-        channels: opts.channels,
-        sampleFormat: opts.sampleFormat,
-        ...(opts.takenAt ? { takenAt: opts.takenAt } : {}),
-        ...(sessionId ? { resumeSessionId: sessionId } : {}),
-      });
-      if (sessionId) resumedAt.push(began.nextSeq);
+      const begin = (resumeSessionId: string | undefined) =>
+        req<BeginAck>("begin", {
+          assetId: opts.assetId,
+          ...(opts.measurementPointId !== undefined ? { measurementPointId: opts.measurementPointId } : {}),
+          sampleRate: opts.sampleRate,
+          channels: opts.channels,
+          sampleFormat: opts.sampleFormat,
+          ...(opts.takenAt ? { takenAt: opts.takenAt } : {}),
+          ...(resumeSessionId ? { resumeSessionId } : {}),
+        });
+      let began: BeginAck;
+      let ended: EndAck | null = null;
+      if (restartPending) {
+        const found = await resumeSaved(req, begin, sessionId!, opts.frames.length, chunkBytes, totalChunks);
+        restartPending = false;
+        if ("refused" in found) {
+          opts.onResumeRefused?.(found.refused);
+          sessionId = undefined; // a reconnect from here begins anew too
+          began = await begin(undefined);
+        } else {
+          began = found.began;
+          ended = found.ended;
+          restartedAt = began.nextSeq;
+        }
+      } else {
+        began = await begin(sessionId);
+        if (sessionId) resumedAt.push(began.nextSeq);
+      }
+      const resumed = began.sessionId === sessionId;
       sessionId = began.sessionId;
+      if (ended) return { captureId: ended.captureId, status: ended.status, sessionId, totalChunks, resumedAt, restartedAt, alreadyEnded: true };
+      await opts.onBegin?.({ sessionId, nextSeq: began.nextSeq, resumed, chunkBytes, totalChunks });
 
       const cut = () => socket.io.engine?.close();
       const window = Math.max(1, opts.window ?? 4);
@@ -112,11 +154,11 @@ export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamC
         const head = inflight.shift()!;
         await head.ack;
         acked = head.seq + 1;
-        opts.onProgress?.({ ackedBytes: Math.min(acked * chunkBytes, opts.frames.length), totalBytes: opts.frames.length, seq: head.seq, totalChunks });
+        await opts.onProgress?.({ ackedBytes: Math.min(acked * chunkBytes, opts.frames.length), totalBytes: opts.frames.length, seq: head.seq, totalChunks });
         opts.onChunkAck?.(head.seq, cut);
       }
       const done = await req<EndAck>("end", { sessionId, totalChunks });
-      return { captureId: done.captureId, status: done.status, sessionId, totalChunks, resumedAt };
+      return { captureId: done.captureId, status: done.status, sessionId, totalChunks, resumedAt, ...(restartedAt !== undefined ? { restartedAt } : {}) };
     } catch (err) {
       if (err instanceof StreamRefused) {
         // A gap means the server lost track of chunks it acknowledged (e.g. its disk was restored): resume from nextSeq.
@@ -129,6 +171,54 @@ export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamC
       socket.removeAllListeners();
       socket.disconnect();
     }
+  }
+}
+
+/** Refusals of a saved session after which a new session is the way on (anything else is final or worth a retry). */
+const RESUME_REFUSALS = new Set<StreamError["code"]>(["unknown-session", "session-closed", "resume-mismatch"]);
+
+/**
+ * Resume a session saved by an earlier run: the server's answer is the truth about where the stream stands. An ended
+ * session is re-acknowledged with "end" (its capture); an open one must hold exactly `nextSeq` chunks of this size.
+ */
+async function resumeSaved(
+  req: ReturnType<typeof requester>,
+  begin: (resumeSessionId: string) => Promise<BeginAck>,
+  sessionId: string,
+  totalBytes: number,
+  chunkBytes: number,
+  totalChunks: number,
+): Promise<{ began: BeginAck; ended: EndAck | null } | { refused: StreamError }> {
+  const refusedBy = (err: unknown) => (err instanceof StreamRefused && RESUME_REFUSALS.has(err.error.code) ? { refused: err.error } : null);
+  let began: BeginAck;
+  try {
+    began = await begin(sessionId);
+  } catch (err) {
+    const r = refusedBy(err);
+    if (r) return r;
+    throw err;
+  }
+  // An older server does not say; then the offset cannot be checked and an ended session is found by "end" as before.
+  if (began.bytesReceived !== undefined) {
+    const expected = began.status === "ended" ? totalBytes : Math.min(began.nextSeq * chunkBytes, totalBytes);
+    if (began.nextSeq > totalChunks || began.bytesReceived !== expected)
+      return {
+        refused: {
+          code: "resume-mismatch",
+          sessionId,
+          message:
+            `Stream session ${sessionId} holds ${began.bytesReceived} bytes in ${began.nextSeq} chunk(s), which does not fit this capture ` +
+            `(${totalBytes} bytes in chunks of ${chunkBytes} bytes).`,
+        },
+      };
+  }
+  if (began.status !== "ended") return { began, ended: null };
+  try {
+    return { began, ended: await req<EndAck>("end", { sessionId, totalChunks: began.nextSeq }) };
+  } catch (err) {
+    const r = refusedBy(err); // ended, but its capture was deleted
+    if (r) return r;
+    throw err;
   }
 }
 

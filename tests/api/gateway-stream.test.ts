@@ -2,10 +2,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { spawn } from "node:child_process";
 import { io as ioClient, type Socket } from "socket.io-client";
 import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
 import { insertMotor, nextEvent, sleep, startTestServer, type TestServer } from "../helpers/realtime.ts";
+import { runGatewayCli, startGatewayCli } from "../helpers/gateway-cli.ts";
 import { createFsBlobStore } from "../../server/blob/fs.ts";
 import type { BlobStore } from "../../server/blob/index.ts";
 import type { AnalysisJobData, CaptureQueue } from "../../server/queue.ts";
@@ -16,7 +16,6 @@ import { streamCapture } from "../../server/gateway/stream-client.ts";
 import { abandonStaleSessions, partPath } from "../../server/gateway/session-store.ts";
 import type { StreamError } from "../../server/gateway/protocol.ts";
 
-const ROOT = path.resolve(import.meta.dirname, "../..");
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "bh-gateway-"));
 const jobs: AnalysisJobData[] = [];
 let env: TestEnv;
@@ -35,7 +34,7 @@ const CHANNELS = [
 ];
 
 /** Three phase currents, 50 Hz with a little noise, 10 kHz, 1.5 s. */
-function syntheticCapture(seconds = 1.5, rate = 10_000): Capture {
+function syntheticCapture(seconds = 1.5, rate = 10_000, amplitude = 42): Capture {
   const n = Math.round(seconds * rate);
   let seed = 12345;
   const noise = () => ((seed = (seed * 1103515245 + 12345) % 2 ** 31) / 2 ** 31 - 0.5) * 0.05;
@@ -43,7 +42,7 @@ function syntheticCapture(seconds = 1.5, rate = 10_000): Capture {
     sampleRate: rate,
     channels: CHANNELS.map((c, k) => {
       const data = new Float64Array(n);
-      for (let i = 0; i < n; i++) data[i] = 42 * Math.sin(2 * Math.PI * 50 * (i / rate) - (2 * Math.PI * k) / 3) + noise();
+      for (let i = 0; i < n; i++) data[i] = amplitude * Math.sin(2 * Math.PI * 50 * (i / rate) - (2 * Math.PI * k) / 3) + noise();
       return { ...c, data };
     }),
   };
@@ -172,6 +171,43 @@ describe("streamed captures", () => {
     expect(captureToF32Frames(capture).equals(frames3(0, 300))).toBe(true);
   });
 
+  it("a resume answers where the server stands; a saved session that does not fit the chunks is replaced by a new one", async () => {
+    const socket = await rawGateway(token);
+    const base = { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
+    const { sessionId } = await socket.emitWithAck("begin", base);
+    await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 100) });
+    await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(300, 100) });
+    expect(await socket.emitWithAck("begin", { ...base, resumeSessionId: sessionId })).toEqual({ sessionId, nextSeq: 2, status: "open", bytesReceived: 2400, captureId: null });
+
+    // A restarted gateway that asks with chunks of 70 frames: 2 chunks would be 1680 bytes, not the 2400 stored.
+    const all = frames3(0, 300);
+    const refusals: StreamError[] = [];
+    const result = await streamCapture({
+      url: server.url,
+      token,
+      ...base,
+      sampleFormat: "f32le",
+      frames: all,
+      chunkBytes: 70 * 12,
+      resumeSessionId: sessionId,
+      onResumeRefused: (e) => refusals.push(e),
+    });
+    expect(refusals).toEqual([expect.objectContaining({ code: "resume-mismatch", message: expect.stringMatching(/holds 2400 bytes in 2 chunk\(s\)/) })]);
+    expect(result.sessionId).not.toBe(sessionId);
+    expect(result.restartedAt).toBeUndefined();
+    expect(captureToF32Frames((await storedCapture(result.captureId)).capture).equals(all)).toBe(true);
+    expect(await env.db("stream_sessions").where({ id: sessionId }).first()).toMatchObject({ status: "open", next_seq: 2 });
+
+    // Resumed with the chunks it began with, the saved session goes on at chunk 2 and ends once.
+    const resumed = await streamCapture({ url: server.url, token, ...base, sampleFormat: "f32le", frames: all, chunkBytes: 100 * 12, resumeSessionId: sessionId });
+    expect(resumed).toMatchObject({ sessionId, restartedAt: 2, totalChunks: 3, resumedAt: [] });
+    expect(resumed.alreadyEnded).toBeUndefined();
+    const again = await streamCapture({ url: server.url, token, ...base, sampleFormat: "f32le", frames: all, chunkBytes: 100 * 12, resumeSessionId: sessionId });
+    expect(again).toMatchObject({ sessionId, captureId: resumed.captureId, alreadyEnded: true });
+    expect(await env.db("captures").where({ id: resumed.captureId }).count("* as n").first()).toMatchObject({ n: "1" });
+    expect(captureToF32Frames((await storedCapture(resumed.captureId)).capture).equals(all)).toBe(true);
+  });
+
   it("answers a gap and a chunk of partial frames with stream:error, storing neither", async () => {
     const socket = await rawGateway(token);
     const errors: StreamError[] = [];
@@ -245,16 +281,10 @@ describe("streamed captures", () => {
     const original = syntheticCapture(0.5, 5000);
     const file = path.join(dataDir, "fan-3.csv");
     fs.writeFileSync(file, writeCsv(original));
-    const child = spawn(
-      process.execPath,
-      ["--import", "tsx", "workers/gateway-cli.ts", "--file", file, "--asset", String(motor.assetId), "--token", token, "--url", server.url, "--chunk-kb", "8"],
-      { cwd: ROOT, stdio: ["ignore", "pipe", "pipe"] },
+    const stateDir = path.join(dataDir, "state-csv");
+    const { code, stdout: out, stderr: err } = await runGatewayCli(
+      ["--file", file, "--asset", String(motor.assetId), "--token", token, "--url", server.url, "--chunk-kb", "8", "--state-dir", stateDir],
     );
-    let out = "";
-    let err = "";
-    child.stdout.on("data", (d) => (out += d));
-    child.stderr.on("data", (d) => (err += d));
-    const code = await new Promise<number | null>((resolve) => child.on("close", resolve));
     expect(code, err).toBe(0);
     const captureId = Number(out.trim());
     expect(Number.isInteger(captureId) && captureId > 0, out).toBe(true);
@@ -262,5 +292,198 @@ describe("streamed captures", () => {
     const { row, capture } = await storedCapture(captureId);
     expect(row).toMatchObject({ source: "stream", gateway_id: gatewayId, sample_rate: 5000 });
     expect(captureToF32Frames(capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+    // The state of a finished stream is deleted.
+    expect(fs.readdirSync(stateDir)).toEqual([]);
+  });
+});
+
+describe("the command-line gateway after a restart", { timeout: 60_000 }, () => {
+  // 3 channels × 4 bytes at 10 kHz for 3.5 s = 35 000 frames; 4 KiB chunks hold 341 frames, so 103 chunks.
+  const TOTAL_CHUNKS = 103;
+  // Slows only the run that is interrupted, so it is still streaming when it is killed (honoured when NODE_ENV=test).
+  const SLOW = { BARHOUND_TEST_GATEWAY_ACK_DELAY_MS: "25" };
+  let run = 0;
+
+  function captureFile(name: string, amplitude = 42) {
+    const file = path.join(dataDir, name);
+    fs.writeFileSync(file, writeWav(syntheticCapture(3.5, 10_000, amplitude)));
+    return file;
+  }
+  const newStateDir = () => path.join(dataDir, `state-${++run}`);
+  const cliArgs = (file: string, stateDir: string, tok = token, ...extra: string[]) => [
+    ...["--file", file, "--asset", String(motor.assetId), "--token", tok, "--url", server.url, "--chunk-kb", "4", "--state-dir", stateDir],
+    ...extra,
+  ];
+  const stateFiles = (dir: string) => (fs.existsSync(dir) ? fs.readdirSync(dir) : []);
+  const readState = (dir: string) => {
+    const files = stateFiles(dir);
+    expect(files).toHaveLength(1);
+    return JSON.parse(fs.readFileSync(path.join(dir, files[0]), "utf8"));
+  };
+  const session = (id: string) => env.db("stream_sessions").where({ id }).first();
+  const countCaptures = async (gw: number) => Number((await env.db("captures").where({ gateway_id: gw }).count("* as n").first())!.n);
+
+  /** Start the CLI slowed down and kill it once the server holds at least 8 chunks of the session it began. */
+  async function interruptedRun(args: string[], gw = gatewayId, signal: NodeJS.Signals = "SIGKILL") {
+    const known: string[] = await env.db("stream_sessions").where({ gateway_id: gw }).pluck("id");
+    const child = startGatewayCli(args, SLOW);
+    const until = Date.now() + 20_000;
+    let begun: { id: string } | undefined;
+    while (!begun) {
+      begun = await env.db("stream_sessions").where({ gateway_id: gw }).whereNotIn("id", known).andWhere("next_seq", ">=", 8).first("id");
+      if (!begun && (Date.now() > until || child.proc.exitCode !== null)) throw new Error(`the gateway did not get 8 chunks in:\n${child.stderr()}`);
+      if (!begun) await sleep(20);
+    }
+    child.proc.kill(signal);
+    const exit = await child.exited;
+    // Chunks the gateway sent before it died may still be in the server's hands: wait until the count stands still.
+    let row = await session(begun.id);
+    for (let last = -1; row.next_seq !== last; row = await session(begun.id)) {
+      last = row.next_seq;
+      await sleep(200);
+    }
+    // Killed in the middle: the server holds part of the stream and made no capture of it.
+    expect(row).toMatchObject({ status: "open", capture_id: null });
+    expect(row.next_seq).toBeLessThan(TOTAL_CHUNKS);
+    return { sessionId: begun.id, exit, row };
+  }
+
+  it("resumes a killed run from the server's last acknowledged chunk: one capture, byte-identical to an uninterrupted stream", async () => {
+    const file = captureFile("press-2.wav");
+    const reference = await runGatewayCli(cliArgs(file, newStateDir()));
+    expect(reference.code, reference.stderr).toBe(0);
+    const referenceRow = (await storedCapture(Number(reference.stdout))).row;
+
+    const stateDir = newStateDir();
+    const { sessionId, exit } = await interruptedRun(cliArgs(file, stateDir));
+    expect(exit.signal).toBe("SIGKILL");
+    // The saved state names the session; its count is a hint at most as far as the server got.
+    const saved = readState(stateDir);
+    expect(saved).toMatchObject({ sessionId, chunkBytes: 341 * 12, totalChunks: TOTAL_CHUNKS, file: { path: file, size: fs.statSync(file).size } });
+    expect(saved.tokenPrefix).toBe(token.slice(0, 12));
+    expect(JSON.stringify(saved)).not.toContain(token);
+    const serverHas = (await session(sessionId)).next_seq;
+    expect(saved.ackedChunks).toBeLessThanOrEqual(serverHas);
+    const before = await countCaptures(gatewayId);
+
+    // A different --chunk-kb does not apply to the resumed stream: its chunk numbers mean the saved size.
+    const resumed = await runGatewayCli(cliArgs(file, stateDir, token, "--chunk-kb", "8"));
+    expect(resumed.code, resumed.stderr).toBe(0);
+    expect(resumed.stderr).toContain("keeping the interrupted run's chunks of 4092 bytes (--chunk-kb 8 applies to new streams)");
+    expect(resumed.stderr).toContain(`resuming stream ${sessionId} at chunk ${serverHas} of ${TOTAL_CHUNKS} (the server's count; the state file had ${saved.ackedChunks})`);
+    const captureId = Number(resumed.stdout);
+    expect(await countCaptures(gatewayId)).toBe(before + 1);
+    expect(await session(sessionId)).toMatchObject({ status: "ended", capture_id: captureId, next_seq: TOTAL_CHUNKS });
+    expect(jobs.filter((j) => j.captureId === captureId)).toHaveLength(1);
+
+    const { row, capture } = await storedCapture(captureId);
+    expect(Buffer.compare(await blob.get(row.blob_key), await blob.get(referenceRow.blob_key))).toBe(0);
+    expect(captureToF32Frames(capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+    expect(stateFiles(stateDir)).toEqual([]);
+  });
+
+  it("--fresh ignores the saved state and streams the file from the start", async () => {
+    const file = captureFile("fan-9.wav");
+    const stateDir = newStateDir();
+    const { sessionId, row: interrupted } = await interruptedRun(cliArgs(file, stateDir));
+    const fresh = await runGatewayCli(cliArgs(file, stateDir, token, "--fresh"));
+    expect(fresh.code, fresh.stderr).toBe(0);
+    expect(fresh.stderr).toMatch(new RegExp(`--fresh: not resuming the interrupted stream ${sessionId} \\(\\d+ of ${TOTAL_CHUNKS} chunks acknowledged\\)`));
+    expect(fresh.stderr).not.toContain("resuming stream");
+    const captureId = Number(fresh.stdout);
+    const made = await env.db("stream_sessions").where({ capture_id: captureId }).first();
+    expect(made.id).not.toBe(sessionId);
+    expect(made).toMatchObject({ status: "ended", next_seq: TOTAL_CHUNKS });
+    // The interrupted session is left as it was (the stale-session sweep removes it later).
+    expect(await session(sessionId)).toMatchObject({ status: "open", next_seq: interrupted.next_seq });
+    expect(captureToF32Frames((await storedCapture(captureId)).capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+    expect(stateFiles(stateDir)).toEqual([]);
+  });
+
+  it("does not resume when the file changed since the interrupted run, even at the same size", async () => {
+    const file = captureFile("pump-4.wav");
+    const stateDir = newStateDir();
+    const { sessionId } = await interruptedRun(cliArgs(file, stateDir));
+    const sizeBefore = fs.statSync(file).size;
+    captureFile("pump-4.wav", 40);
+    expect(fs.statSync(file).size).toBe(sizeBefore);
+
+    const again = await runGatewayCli(cliArgs(file, stateDir));
+    expect(again.code, again.stderr).toBe(0);
+    expect(again.stderr).toContain(`pump-4.wav changed since the interrupted run (its content differs (same size`);
+    expect(again.stderr).toContain(`not resuming stream ${sessionId}`);
+    const captureId = Number(again.stdout);
+    expect((await env.db("stream_sessions").where({ capture_id: captureId }).first()).id).not.toBe(sessionId);
+    // The capture holds the file as it is now, not the start of the old one.
+    const frames = captureToF32Frames((await storedCapture(captureId)).capture);
+    expect(frames.equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+  });
+
+  it("Ctrl-C saves the state; a stream the server already finished is not sent again and its capture id is printed", async () => {
+    const file = captureFile("mill-1.wav");
+    const stateDir = newStateDir();
+    const { sessionId, exit } = await interruptedRun(cliArgs(file, stateDir), gatewayId, "SIGINT");
+    expect(exit.code, exit.stderr).toBe(130);
+    expect(exit.stderr).toMatch(new RegExp(`interrupted after \\d+ of ${TOTAL_CHUNKS} chunks; run the same command again to resume stream ${sessionId}`));
+    const [stateName] = stateFiles(stateDir);
+    const savedText = fs.readFileSync(path.join(stateDir, stateName), "utf8");
+    expect(JSON.parse(savedText).ackedChunks).toBeGreaterThanOrEqual(1);
+
+    const finished = await runGatewayCli(cliArgs(file, stateDir));
+    expect(finished.code, finished.stderr).toBe(0);
+    const captureId = Number(finished.stdout);
+    const before = await countCaptures(gatewayId);
+
+    // As if the run had been killed after the server ended the stream but before the state file was deleted.
+    fs.writeFileSync(path.join(stateDir, stateName), savedText);
+    const again = await runGatewayCli(cliArgs(file, stateDir));
+    expect(again.code, again.stderr).toBe(0);
+    expect(again.stdout.trim()).toBe(String(captureId));
+    expect(again.stderr).toContain(`the server had already finished stream ${sessionId} as capture ${captureId}`);
+    expect(again.stderr).not.toMatch(/100 %/);
+    expect(await countCaptures(gatewayId)).toBe(before);
+    expect(stateFiles(stateDir)).toEqual([]);
+  });
+
+  it("a revoked token is reported on resume; with another gateway's token the file is streamed anew", async () => {
+    const doomed = await newGateway("Gateway revoked mid-stream");
+    const file = captureFile("conveyor-5.wav");
+    const stateDir = newStateDir();
+    const { sessionId } = await interruptedRun(cliArgs(file, stateDir, doomed.token), doomed.id);
+    const admin = await signedIn(env.app, "admin");
+    expect((await admin.post(`/api/gateways/${doomed.id}/revoke`)).status).toBe(200);
+
+    const refused = await runGatewayCli(cliArgs(file, stateDir, doomed.token));
+    expect(refused.code).toBe(1);
+    expect(refused.stderr).toMatch(/Gateway revoked mid-stream.*was revoked/);
+    expect(refused.stderr).toMatch(new RegExp(`The interrupted stream ${sessionId} \\(\\d+ of ${TOTAL_CHUNKS} chunks acknowledged\\) was not resumed`));
+    expect(stateFiles(stateDir)).toHaveLength(1);
+    expect(await countCaptures(doomed.id)).toBe(0);
+
+    const replacement = await newGateway("Replacement gateway");
+    const anew = await runGatewayCli(cliArgs(file, stateDir, replacement.token));
+    expect(anew.code, anew.stderr).toBe(0);
+    expect(anew.stderr).toContain(
+      `the server does not know the interrupted stream ${sessionId} (it was begun with token ${doomed.token.slice(0, 12)}_…, this run uses ${replacement.token.slice(0, 12)}_…); starting a new stream.`,
+    );
+    const { row, capture } = await storedCapture(Number(anew.stdout));
+    expect(row.gateway_id).toBe(replacement.id);
+    expect(captureToF32Frames(capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+    expect(stateFiles(stateDir)).toEqual([]);
+  });
+
+  it("a stream the server abandoned is begun anew, with one line saying so", async () => {
+    const file = captureFile("blower-8.wav");
+    const stateDir = newStateDir();
+    const { sessionId } = await interruptedRun(cliArgs(file, stateDir));
+    await env.db("stream_sessions").where({ id: sessionId }).update({ updated_at: env.db.raw("now() - interval '3 days'") });
+    expect(await abandonStaleSessions(env.db, env.config, 48)).toBeGreaterThanOrEqual(1);
+
+    const again = await runGatewayCli(cliArgs(file, stateDir));
+    expect(again.code, again.stderr).toBe(0);
+    expect(again.stderr.split("\n").filter((l) => l.includes(`has given up the interrupted stream ${sessionId}`))).toHaveLength(1);
+    const captureId = Number(again.stdout);
+    expect((await env.db("stream_sessions").where({ capture_id: captureId }).first()).id).not.toBe(sessionId);
+    expect(captureToF32Frames((await storedCapture(captureId)).capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
   });
 });
