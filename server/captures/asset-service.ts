@@ -3,6 +3,7 @@
 import { z } from "zod";
 import type { Knex } from "knex";
 import { badRequest } from "../errors.ts";
+import { assetAreaId } from "../../src/shared/schemas/assets.ts";
 
 export const DRIVEN_EQUIPMENT = ["pump", "fan", "compressor", "conveyor", "mixer", "crusher", "blower", "mill", "other"] as const;
 
@@ -14,7 +15,7 @@ const optPos = pos.nullable().optional();
 export const assetFields = {
   tag: z.string().trim().min(1, "Give the motor a tag").max(60),
   name: z.string().trim().min(1, "Give the motor a name").max(200),
-  areaId: z.number().int().positive("Choose an area"),
+  areaId: assetAreaId,
   drivenEquipment: z.enum(DRIVEN_EQUIPMENT, { message: `One of: ${DRIVEN_EQUIPMENT.join(", ")}` }).default("pump"),
   criticality: z.enum(["low", "medium", "high"], { message: "One of: low, medium, high" }).default("medium"),
   ratedKw: optPos,

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
+import { demoUser, makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
 import { routeRegistry } from "../../server/http.ts";
 import { ROLES, can } from "../../server/permissions.ts";
 
@@ -53,6 +53,160 @@ describe("sites and areas", () => {
     expect((await tech.post("/api/sites").send({ code: "Z1", name: "Nope" })).status).toBe(403);
     expect((await (await signedIn(env.app, "planner")).patch(`/api/sites/${siteId}`).send({ name: "x" })).status).toBe(403);
     expect((await (await signedIn(env.app, "manager")).post(`/api/sites/${siteId}/areas`).send({ name: "x" })).status).toBe(403);
+  });
+});
+
+describe("editing and deleting sites and areas", () => {
+  /** A site with the named areas; returns the site id and each area's id by name. */
+  const newSite = async (admin: request.Agent, code: string, areaNames: string[], timezone = "Europe/Berlin") => {
+    const site = await admin.post("/api/sites").send({ code: `${code}${sfx}`, name: `Works ${code}`, timezone });
+    expect(site.status).toBe(201);
+    const areas: Record<string, number> = {};
+    for (const name of areaNames) {
+      const a = await admin.post(`/api/sites/${site.body.id}/areas`).send({ name });
+      expect(a.status).toBe(201);
+      areas[name] = a.body.id;
+    }
+    return { id: site.body.id as number, code: `${code}${sfx}`, areas };
+  };
+  const auditOf = async (admin: request.Agent, subjectType: string, id: number) =>
+    (await admin.get(`/api/audit?subjectType=${subjectType}&subjectId=${id}`)).body.items as { action: string; actor: string; details: Record<string, unknown> }[];
+
+  it("an edit changes only the fields sent: renaming a site keeps its time zone", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "E", ["Pump house"], "America/Chicago");
+    const res = await admin.patch(`/api/sites/${s.id}`).send({ name: "East works" });
+    expect(res.status).toBe(200);
+    expect(res.body).toMatchObject({ code: s.code, name: "East works", timezone: "America/Chicago" });
+    expect(await env.db("sites").where({ id: s.id }).first()).toMatchObject({ name: "East works", timezone: "America/Chicago" });
+    expect((await auditOf(admin, "site", s.id))[0]).toMatchObject({ action: "site.updated", details: { name: "East works" } });
+    const bad = await admin.patch(`/api/sites/${s.id}`).send({ timezone: "Mars/Base" });
+    expect(bad.status).toBe(400);
+    expect(bad.body.fields.timezone).toMatch(/time zone/);
+    expect((await env.db("sites").where({ id: s.id }).first()).timezone).toBe("America/Chicago");
+  });
+
+  it("deletes an empty area and audits it; an unknown area is a 404", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "A", ["Pump house", "Annex"]);
+    const res = await admin.delete(`/api/areas/${s.areas.Annex}`);
+    expect(res.status).toBe(204);
+    expect(await env.db("areas").where({ id: s.areas.Annex }).first()).toBeUndefined();
+    const listed = (await admin.get("/api/sites")).body.items.find((x: { id: number }) => x.id === s.id);
+    expect(listed.areas).toEqual([{ id: s.areas["Pump house"], name: "Pump house" }]);
+    const trail = await auditOf(admin, "area", s.areas.Annex);
+    expect(trail.map((a) => a.action)).toEqual(["area.deleted", "area.created"]);
+    expect(trail[0]).toMatchObject({ actor: demoUser("admin").email, details: { siteId: s.id, name: "Annex" } });
+    const again = await admin.delete(`/api/areas/${s.areas.Annex}`);
+    expect(again.status).toBe(404);
+    expect(again.body.error).toBe("No such area.");
+    expect((await admin.delete("/api/areas/99999999")).status).toBe(404);
+  });
+
+  it("refuses an area that holds motors (409, says how many and what to do, nothing removed); after a move it goes", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "M", ["Intake", "Outfall"]);
+    const ids: number[] = [];
+    for (const n of [1, 2]) {
+      const m = await admin.post("/api/assets").send(motor({ tag: `M-${sfx}-${n}`, areaId: s.areas.Intake }));
+      expect(m.status).toBe(201);
+      ids.push(m.body.id);
+    }
+    const refused = await admin.delete(`/api/areas/${s.areas.Intake}`);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error).toMatch(/^Area Intake \(Works M\) was not deleted\. It still holds 2 motors: move them to another area or delete them first\.$/);
+    expect(await env.db("areas").where({ id: s.areas.Intake }).first()).toMatchObject({ name: "Intake", site_id: s.id });
+    expect((await env.db("assets").whereIn("id", ids).select("area_id")).map((r) => r.area_id)).toEqual([s.areas.Intake, s.areas.Intake]);
+    expect(await auditOf(admin, "area", s.areas.Intake)).toEqual([expect.objectContaining({ action: "area.created" })]);
+
+    // The advice can be followed: move one motor, delete the other, then the area goes.
+    const moved = await admin.patch(`/api/assets/${ids[0]}`).send({ areaId: s.areas.Outfall });
+    expect(moved.status).toBe(200);
+    expect(moved.body).toMatchObject({ areaId: s.areas.Outfall, areaName: "Outfall", siteId: s.id });
+    const one = await admin.delete(`/api/areas/${s.areas.Intake}`);
+    expect(one.body.error).toBe(`Area Intake (Works M) was not deleted. It still holds 1 motor: move it to another area or delete it first.`);
+    expect((await admin.delete(`/api/assets/${ids[1]}`)).status).toBe(204);
+    expect((await admin.delete(`/api/areas/${s.areas.Intake}`)).status).toBe(204);
+    expect((await admin.get(`/api/assets/${ids[0]}`)).body.areaName).toBe("Outfall");
+  });
+
+  it("deletes a site with only empty areas, its areas with it, and audits it; a revoked gateway stays without a site", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "D", ["Boiler house", "Roof"]);
+    const gw = await admin.post("/api/gateways").send({ name: `Old panel ${sfx}`, siteId: s.id });
+    expect(gw.status).toBe(201);
+    expect((await admin.post(`/api/gateways/${gw.body.id}/revoke`).send({})).status).toBeLessThan(300);
+    const res = await admin.delete(`/api/sites/${s.id}`);
+    expect(res.status).toBe(204);
+    expect(await env.db("sites").where({ id: s.id }).first()).toBeUndefined();
+    expect(await env.db("areas").where({ site_id: s.id })).toEqual([]);
+    expect(await env.db("areas").whereIn("id", Object.values(s.areas))).toEqual([]);
+    expect(await env.db("gateways").where({ id: gw.body.id }).first()).toMatchObject({ site_id: null, revoked_at: expect.any(Date) });
+    expect((await admin.get("/api/sites")).body.items.some((x: { id: number }) => x.id === s.id)).toBe(false);
+    const trail = await auditOf(admin, "site", s.id);
+    expect(trail[0]).toMatchObject({
+      action: "site.deleted",
+      actor: demoUser("admin").email,
+      details: {
+        code: s.code,
+        name: "Works D",
+        timezone: "Europe/Berlin",
+        areas: [{ id: s.areas["Boiler house"], name: "Boiler house" }, { id: s.areas.Roof, name: "Roof" }],
+        revokedGateways: [gw.body.id],
+      },
+    });
+    const again = await admin.delete(`/api/sites/${s.id}`);
+    expect(again.status).toBe(404);
+    expect(again.body.error).toBe("No such site.");
+    expect((await admin.delete("/api/sites/99999999")).status).toBe(404);
+  });
+
+  it("refuses a site that holds motors or has an active gateway (409 with counts and what to do, nothing removed)", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "H", ["Clarifier", "Dosing", "Empty yard"]);
+    const other = await newSite(admin, "O", ["Store"]);
+    const tags = [
+      [`H-${sfx}-1`, s.areas.Clarifier],
+      [`H-${sfx}-2`, s.areas.Clarifier],
+      [`H-${sfx}-3`, s.areas.Dosing],
+    ] as const;
+    const ids: number[] = [];
+    for (const [tag, area] of tags) ids.push((await admin.post("/api/assets").send(motor({ tag, areaId: area }))).body.id);
+    const gw = await admin.post("/api/gateways").send({ name: `Clarifier panel ${sfx}`, siteId: s.id });
+    expect(gw.status).toBe(201);
+
+    const refused = await admin.delete(`/api/sites/${s.id}`);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error).toBe(
+      `Site ${s.code} · Works H was not deleted. It still holds 3 motors (Clarifier: 2, Dosing: 1): move them to an area of another site or delete them first. ` +
+        `It has an active gateway (Clarifier panel ${sfx}): revoke it under Admin → Gateways first.`,
+    );
+    expect(await env.db("sites").where({ id: s.id }).first()).toMatchObject({ code: s.code });
+    expect((await env.db("areas").where({ site_id: s.id }).orderBy("name")).map((a) => a.name)).toEqual(["Clarifier", "Dosing", "Empty yard"]);
+    expect(await env.db("assets").whereIn("id", ids).count<{ count: string }[]>({ count: "*" })).toEqual([{ count: "3" }]);
+    expect(await env.db("gateways").where({ id: gw.body.id }).first()).toMatchObject({ site_id: s.id, revoked_at: null });
+    expect((await auditOf(admin, "site", s.id)).map((a) => a.action)).toEqual(["site.created"]);
+
+    // Motors moved to another site: only the gateway stands in the way; revoked, the site goes.
+    for (const id of ids) expect((await admin.patch(`/api/assets/${id}`).send({ areaId: other.areas.Store })).body.siteId).toBe(other.id);
+    const gatewayOnly = await admin.delete(`/api/sites/${s.id}`);
+    expect(gatewayOnly.status).toBe(409);
+    expect(gatewayOnly.body.error).toBe(`Site ${s.code} · Works H was not deleted. It has an active gateway (Clarifier panel ${sfx}): revoke it under Admin → Gateways first.`);
+    await admin.post(`/api/gateways/${gw.body.id}/revoke`).send({});
+    expect((await admin.delete(`/api/sites/${s.id}`)).status).toBe(204);
+    expect((await env.db("assets").whereIn("id", ids).select("area_id")).map((r) => r.area_id)).toEqual([other.areas.Store, other.areas.Store, other.areas.Store]);
+  });
+
+  it("only admins delete sites and areas", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "R", ["Kept"]);
+    for (const role of ["technician", "analyst", "planner", "manager"] as const) {
+      const agent = await signedIn(env.app, role);
+      expect((await agent.delete(`/api/areas/${s.areas.Kept}`)).status).toBe(403);
+      expect((await agent.delete(`/api/sites/${s.id}`)).status).toBe(403);
+    }
+    expect(await env.db("areas").where({ id: s.areas.Kept }).first()).toBeTruthy();
+    expect((await request(env.app).delete(`/api/sites/${s.id}`)).status).toBe(401);
   });
 });
 

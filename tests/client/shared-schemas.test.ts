@@ -11,7 +11,10 @@ import { calculatorSchema, EXAMPLE } from "../../src/features/calculator/api/eva
 import { completeSchema, scheduleSchema, todayIso } from "../../src/lib/inspections.ts";
 import { forgotBody, loginBody, setPasswordBody } from "../../src/shared/schemas/auth.ts";
 import { inviteBody } from "../../src/shared/schemas/users.ts";
-import { areaBody, siteBody } from "../../src/shared/schemas/sites.ts";
+import { areaBody, siteBody, sitePatchBody } from "../../src/shared/schemas/sites.ts";
+import { moveMotorBody } from "../../src/shared/schemas/assets.ts";
+import { moveMotorSchema } from "../../src/features/motor/api/move-motor.ts";
+import { assetFields } from "../../server/captures/asset-service.ts";
 import { gatewayBody } from "../../src/shared/schemas/gateways.ts";
 import { completeBody, earliestToday, inspectionPatchBody, isPastDueDate, scheduleBody } from "../../src/shared/schemas/inspections.ts";
 import { verdictBody } from "../../src/shared/schemas/findings.ts";
@@ -105,6 +108,25 @@ describe("forms and API share their request schemas", () => {
       { form: { name: "", siteId: "" }, body: { name: "" }, ok: false },
       { form: { name: "Panel", siteId: "0" }, body: { name: "Panel", siteId: 0 }, ok: false },
     ]);
+  });
+
+  it("edit a site: a field left out stays as it is (no default time zone on an edit)", () => {
+    expect(sitePatchBody.parse({ name: "East works" })).toEqual({ name: "East works" });
+    expect(sitePatchBody.parse({})).toEqual({});
+    expect(siteBody.parse({ code: "E1", name: "East" }).timezone).toBe("UTC");
+    expect(outcome(sitePatchBody, { timezone: "Mars/Base" })).toEqual({ ok: false, paths: ["timezone"] });
+  });
+
+  it("move a motor to another area: the motor page's form and PATCH /assets/:id share the area rule", () => {
+    same(moveMotorSchema, moveMotorBody, [
+      { form: { siteId: "2", areaId: "7" }, body: { areaId: 7 }, ok: true },
+      { form: { siteId: "2", areaId: "" }, body: {}, ok: false },
+      { form: { siteId: "2", areaId: "0" }, body: { areaId: 0 }, ok: false },
+      { form: { siteId: "2", areaId: "1.5" }, body: { areaId: 1.5 }, ok: false },
+    ]);
+    expect(moveMotorSchema.safeParse({ areaId: "" }).error?.issues[0].message).toBe("Choose an area");
+    // The full motor body takes the same rule, so a move is refused on the same words.
+    expect(assetFields.areaId.safeParse(undefined).error?.issues[0].message).toBe("Choose an area");
   });
 
   it("verdict: the same rules, and the form alone asks for a note when dismissing or asking for a re-measure", () => {

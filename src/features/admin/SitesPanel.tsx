@@ -1,3 +1,5 @@
+// Admin → Sites and areas: every site with its areas (edit, rename, delete after a confirmation; a site or area that
+// still holds motors is refused by the server and its message shown in the card), and the new-site form.
 import { useState } from "react";
 import { useQuery } from "@tanstack/react-query";
 import { Section } from "../../components/Page.tsx";
@@ -7,8 +9,9 @@ import { EmptyState } from "../../components/EmptyState.tsx";
 import { ErrorNote } from "../../components/Alert.tsx";
 import { PageLoading } from "../../components/Spinner.tsx";
 import type { Site } from "../../lib/contracts.ts";
-import { areaSchema, siteSchema } from "./schemas.ts";
-import { useAddArea, useCreateSite } from "./api/admin.ts";
+import { siteSchema } from "./schemas.ts";
+import { useCreateSite, useDeleteSite, useUpdateSite } from "./api/admin.ts";
+import { AreaList } from "./AreaList.tsx";
 import { sitesQueryOptions } from "../../lib/sites.ts";
 
 export function SitesPanel() {
@@ -32,14 +35,12 @@ export function SitesPanel() {
 }
 
 function SiteCard({ site }: { site: Site }) {
-  const add = useAddArea();
-  const form = useZodForm(areaSchema, { name: "" });
-  const [adding, setAdding] = useState(false);
-  const onSubmit = form.submit(async ({ name }) => {
-    await add.mutateAsync({ siteId: site.id, name });
-    form.reset();
-    setAdding(false);
-  });
+  const del = useDeleteSite();
+  const [editing, setEditing] = useState(false);
+  const onDelete = () => {
+    const areas = site.areas.length ? ` and its ${site.areas.length === 1 ? "area" : `${site.areas.length} areas`}` : "";
+    if (confirm(`Delete site ${site.code} · ${site.name}${areas}? Only a site without motors can be deleted.`)) del.mutate(site.id);
+  };
   return (
     <Section
       title={
@@ -48,30 +49,55 @@ function SiteCard({ site }: { site: Site }) {
           {site.name}
         </span>
       }
-      actions={<span className="text-caption text-ink-muted">{site.timezone}</span>}
+      actions={
+        <span className="flex items-center gap-2">
+          <span className="text-caption text-ink-muted">{site.timezone}</span>
+          {!editing && (
+            <Button size="sm" variant="ghost" aria-label={`Edit site ${site.name}`} onClick={() => setEditing(true)}>
+              Edit
+            </Button>
+          )}
+          <Button size="sm" variant="danger" aria-label={`Delete site ${site.name}`} disabled={del.isPending} onClick={onDelete}>
+            Delete
+          </Button>
+        </span>
+      }
     >
-      {site.areas.length ? (
-        <ul className="flex flex-wrap gap-2" aria-label={`Areas of ${site.name}`}>
-          {site.areas.map((a) => (
-            <li key={a.id} className="rounded-full border border-line bg-canvas px-2.5 py-0.5">{a.name}</li>
-          ))}
-        </ul>
-      ) : (
-        <p className="text-ink-muted">No areas yet.</p>
+      {del.isError && (
+        <div className="mb-3">
+          <ErrorNote error={del.error} />
+        </div>
       )}
-      {adding ? (
-        <form onSubmit={onSubmit} noValidate className="mt-3 flex flex-wrap items-end gap-2">
-          <Field label="New area" error={form.errors.name} className="min-w-56 flex-1">
-            {(p) => <TextInput {...p} autoFocus value={form.values.name} onChange={(e) => form.set("name", e.target.value)} />}
-          </Field>
-          <Button type="submit" variant="primary" size="sm" disabled={form.submitting}>Add</Button>
-          <Button size="sm" onClick={() => setAdding(false)}>Cancel</Button>
-          <div className="w-full"><FormError message={form.formError} /></div>
-        </form>
-      ) : (
-        <Button size="sm" className="mt-3" onClick={() => setAdding(true)}>Add an area</Button>
-      )}
+      {editing && <EditSiteForm site={site} onDone={() => setEditing(false)} />}
+      <AreaList site={site} />
     </Section>
+  );
+}
+
+function EditSiteForm({ site, onDone }: { site: Site; onDone: () => void }) {
+  const update = useUpdateSite();
+  const form = useZodForm(siteSchema, { code: site.code, name: site.name, timezone: site.timezone });
+  const onSubmit = form.submit(async (data) => {
+    await update.mutateAsync({ id: site.id, ...data });
+    onDone();
+  });
+  return (
+    <form onSubmit={onSubmit} noValidate className="mb-4 grid gap-3 rounded-md border border-line bg-canvas p-3 sm:grid-cols-[8rem_minmax(0,1fr)_12rem]" aria-label={`Edit site ${site.name}`}>
+      <Field label="Code" error={form.errors.code}>
+        {(p) => <TextInput {...p} className="num" value={form.values.code} onChange={(e) => form.set("code", e.target.value)} />}
+      </Field>
+      <Field label="Name" error={form.errors.name}>
+        {(p) => <TextInput {...p} autoFocus value={form.values.name} onChange={(e) => form.set("name", e.target.value)} />}
+      </Field>
+      <Field label="Time zone" error={form.errors.timezone}>
+        {(p) => <TextInput {...p} value={form.values.timezone} onChange={(e) => form.set("timezone", e.target.value)} />}
+      </Field>
+      <div className="flex flex-wrap items-center gap-2 sm:col-span-3">
+        <Button type="submit" variant="primary" size="sm" disabled={form.submitting}>Save site</Button>
+        <Button size="sm" onClick={onDone}>Cancel</Button>
+      </div>
+      <div className="sm:col-span-3"><FormError message={form.formError} /></div>
+    </form>
   );
 }
 

@@ -15,12 +15,15 @@ import { formatDate, formatDateTime } from "../../lib/format.ts";
 import { useCaptureDetail, useMotor, useMotorCaptureHistory, useMotorFindings, useMotorInspections, useMotorModel, useTrend } from "./api/get-motor.ts";
 import { LoadComparison, ModelCurves } from "./components/ModelCurves.tsx";
 import { ProjectionNote, Trends } from "./components/Trends.tsx";
+import { MoveMotorButton } from "./components/MoveMotor.tsx";
+import { useSession } from "../../lib/session.ts";
 
 export default function MotorPage() {
   const id = Number(useParams().id);
   const motor = useMotor(id);
   const trend = useTrend(id);
   const model = useMotorModel(id);
+  const { can } = useSession();
   const m = motor.data;
   if (motor.isPending) return <PageLoading />;
   if (motor.isError || !m)
@@ -35,6 +38,7 @@ export default function MotorPage() {
     <Page
       wide
       title={`${m.tag} · ${m.name}`}
+      actions={can("assets.write") ? <MoveMotorButton motor={m} /> : undefined}
       eyebrow={
         <>
           <Link to="/motors">Motors</Link> · {m.siteName} · {m.areaName}

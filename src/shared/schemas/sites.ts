@@ -1,4 +1,5 @@
-// Sites and areas (admin): the request bodies of POST/PATCH /api/sites and POST /api/sites/:id/areas, PATCH /api/areas/:id.
+// Sites and areas (admin): the request bodies of POST/PATCH /api/sites and POST /api/sites/:id/areas, PATCH /api/areas/:id
+// (DELETE /api/sites/:id and /api/areas/:id take no body).
 import { z } from "zod";
 
 /** An IANA time zone name the runtime knows (Intl is in every browser and in Node). */
@@ -11,7 +12,7 @@ export function isTimeZone(tz: string): boolean {
   }
 }
 
-export const siteBody = z.object({
+const siteFields = {
   code: z
     .string({ message: "Give the site a short code." })
     .trim()
@@ -24,12 +25,14 @@ export const siteBody = z.object({
     .trim()
     .min(1, "Enter a time zone, e.g. Europe/Berlin.")
     .max(60, "Not a known time zone (use an IANA name such as Europe/Berlin).")
-    .refine((tz) => tz === "" || isTimeZone(tz), "Not a known time zone (use an IANA name such as Europe/Berlin).")
-    .default("UTC"),
-});
+    .refine((tz) => tz === "" || isTimeZone(tz), "Not a known time zone (use an IANA name such as Europe/Berlin)."),
+};
+
+export const siteBody = z.object({ ...siteFields, timezone: siteFields.timezone.default("UTC") });
 export type SiteBody = z.output<typeof siteBody>;
 
-/** Renaming: any of the fields, none required (an omitted time zone stays as it is). */
-export const sitePatchBody = siteBody.partial();
+/** Editing: any of the fields, none required; an omitted field stays as it is (no default here, or an edit of the
+ * name alone would reset the time zone to UTC). */
+export const sitePatchBody = z.object(siteFields).partial();
 
 export const areaBody = z.object({ name: z.string({ message: "Give the area a name." }).trim().min(1, "Give the area a name.").max(200, "Keep the name under 200 characters.") });

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQueryClient } from "@tanstack/react-query";
-import { api, apiGet, apiUpload } from "../../../lib/api.ts";
+import { api, apiDelete, apiGet, apiUpload } from "../../../lib/api.ts";
 import type { Gateway, Role, Site, User } from "../../../lib/contracts.ts";
 import { rootKeys } from "../../../lib/query.ts";
 
@@ -22,7 +22,18 @@ export const usePatchUser = () =>
   useInvalidating(({ id, ...b }: { id: number; role?: Role; active?: boolean; name?: string }) => api<User>(`/users/${id}`, { method: "PATCH", body: b }), rootKeys.users, rootKeys.people);
 export const useCreateSite = () => useInvalidating((b: { code: string; name: string; timezone: string }) => api<Site>("/sites", { method: "POST", body: b }), rootKeys.sites);
 export const useAddArea = () => useInvalidating(({ siteId, name }: { siteId: number; name: string }) => api(`/sites/${siteId}/areas`, { method: "POST", body: { name } }), rootKeys.sites);
-export const useRenameArea = () => useInvalidating(({ id, name }: { id: number; name: string }) => api(`/areas/${id}`, { method: "PATCH", body: { name } }), rootKeys.sites);
+/** A deletion refreshes the lists also when it fails: a 404 means another admin was quicker. */
+function useDeleting<TVars>(fn: (v: TVars) => Promise<unknown>, ...keys: (readonly unknown[])[]) {
+  const qc = useQueryClient();
+  return useMutation({ mutationFn: fn, onSettled: () => Promise.all(keys.map((k) => qc.invalidateQueries({ queryKey: k }))) });
+}
+
+// Site and area names show in the fleet, the motor lists and pages, and the gateway list: those refresh too.
+export const useUpdateSite = () =>
+  useInvalidating(({ id, ...b }: { id: number; code: string; name: string; timezone: string }) => api<Site>(`/sites/${id}`, { method: "PATCH", body: b }), rootKeys.sites, rootKeys.fleet, rootKeys.assets, rootKeys.gateways);
+export const useDeleteSite = () => useDeleting((id: number) => apiDelete(`/sites/${id}`), rootKeys.sites, rootKeys.fleet, rootKeys.gateways);
+export const useRenameArea = () => useInvalidating(({ id, name }: { id: number; name: string }) => api(`/areas/${id}`, { method: "PATCH", body: { name } }), rootKeys.sites, rootKeys.fleet, rootKeys.assets);
+export const useDeleteArea = () => useDeleting((id: number) => apiDelete(`/areas/${id}`), rootKeys.sites, rootKeys.fleet);
 export const useCreateGateway = () => useInvalidating((b: { name: string; siteId: number }) => api<{ id: number; token: string }>("/gateways", { method: "POST", body: b }), rootKeys.gateways);
 export const useRevokeGateway = () => useInvalidating((id: number) => api(`/gateways/${id}/revoke`, { method: "POST", body: {} }), rootKeys.gateways);
 
