@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import crypto from "node:crypto";
 import request from "supertest";
 import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
+import { contentLines, vevents } from "../helpers/ics.ts";
 import { hashPassword } from "../../server/auth.ts";
 import { routeRegistry } from "../../server/http.ts";
 import type { Role } from "../../server/permissions.ts";
@@ -22,22 +23,6 @@ const users: Record<"techA" | "techB" | "planner" | "manager", { email: string; 
 const insp = { aPlanned: 0, aStarted: 0, aDone: 0, bPlanned: 0, aCancelled: 0 };
 
 // ---------------------------------------------------------------------------------------------------------
-// An independent reading of RFC 5545 (not the server's code): unfold (§3.1), split into lines, VEVENT properties.
-const contentLines = (ics: string) => ics.replace(/\r\n[ \t]/g, "").split("\r\n").filter(Boolean);
-function vevents(ics: string): Record<string, string>[] {
-  const out: Record<string, string>[] = [];
-  let cur: Record<string, string> | null = null;
-  for (const line of contentLines(ics)) {
-    if (line === "BEGIN:VEVENT") cur = {};
-    else if (line === "END:VEVENT") (out.push(cur!), (cur = null));
-    else if (cur) {
-      const m = /^([A-Z-]+)((?:;(?:[^":]|"[^"]*")*)?):(.*)$/.exec(line)!;
-      cur[m[1]] = m[3];
-      if (m[2]) cur[m[1] + m[2]] = m[3];
-    }
-  }
-  return out;
-}
 const uidOf = (id: number) => `inspection-${id}@barhound.local`;
 const uids = (ics: string) => vevents(ics).map((e) => e.UID).sort();
 const isoDay = (offsetDays: number) => new Date(Date.now() + offsetDays * 86_400_000).toISOString().slice(0, 10);

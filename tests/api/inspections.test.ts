@@ -4,6 +4,7 @@ import os from "node:os";
 import fs from "node:fs";
 import path from "node:path";
 import { makeTestEnv, signedIn, demoUser, waitForMail, type TestEnv } from "../helpers/context.ts";
+import { contentLines, unescapeText, vevents } from "../helpers/ics.ts";
 import { routeRegistry } from "../../server/http.ts";
 import { can, ROLES, type Permission, type Role } from "../../server/permissions.ts";
 import { computePriority, PRIORITY_TABLE } from "../../server/plan/priority.ts";
@@ -21,29 +22,8 @@ const agents = {} as Record<Role, request.Agent>;
 const ids = { site: 0, area: 0, high: 0, medium: 0, low: 0, otherTech: 0, tech: 0, planner: 0, findingR5: 0, findingZoneC: 0 };
 
 // ---------------------------------------------------------------------------------------------------------
-// Helpers: an independent reading of the formats (not the server's own code) so the tests check the RFCs.
-
-/** RFC 5545 §3.1: unfold (CRLF + one space or tab), then split into content lines. */
-function contentLines(ics: string): string[] {
-  return ics.replace(/\r\n[ \t]/g, "").split("\r\n").filter(Boolean);
-}
-/** VEVENTs as maps "NAME" → value and "NAME;PARAMS" → value. */
-function vevents(ics: string): Record<string, string>[] {
-  const out: Record<string, string>[] = [];
-  let cur: Record<string, string> | null = null;
-  for (const line of contentLines(ics)) {
-    if (line === "BEGIN:VEVENT") cur = {};
-    else if (line === "END:VEVENT") (out.push(cur!), (cur = null));
-    else if (cur) {
-      const m = /^([A-Z-]+)((?:;(?:[^":]|"[^"]*")*)?):(.*)$/.exec(line)!;
-      cur[m[1]] = m[3];
-      if (m[2]) cur[m[1] + m[2]] = m[3];
-    }
-  }
-  return out;
-}
-/** RFC 5545 §3.3.11 TEXT unescaping. */
-const unescapeText = (v: string) => v.replace(/\\([\\;,nN])/g, (_m, c: string) => (c === "n" || c === "N" ? "\n" : c));
+// Helpers: an independent reading of the formats (not the server's own code) so the tests check the RFCs
+// (RFC 5545 in tests/helpers/ics.ts).
 
 /** RFC 4180 parser: quoted fields may hold commas, doubled quotes and line breaks. */
 function parseCsv(text: string): string[][] {

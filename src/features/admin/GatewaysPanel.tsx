@@ -11,6 +11,7 @@ import { formatDateTime } from "../../lib/format.ts";
 import { gatewaySchema } from "./schemas.ts";
 import { gatewaysQueryOptions, useCreateGateway, useRevokeGateway } from "./api/admin.ts";
 import { sitesQueryOptions } from "../../lib/sites.ts";
+import { SiteOptions } from "../../components/SiteOptions.tsx";
 
 export function GatewaysPanel() {
   const gateways = useQuery(gatewaysQueryOptions());
@@ -94,9 +95,7 @@ function NewGateway() {
           {(p) => (
             <Select {...p} value={form.values.siteId} onChange={(e) => form.set("siteId", e.target.value)}>
               <option value="">Pick a site</option>
-              {sites.data?.map((s) => (
-                <option key={s.id} value={s.id}>{s.code} · {s.name}</option>
-              ))}
+              <SiteOptions sites={sites.data} />
             </Select>
           )}
         </Field>

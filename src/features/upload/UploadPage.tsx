@@ -12,6 +12,7 @@ import { sitesQueryOptions } from "../../lib/sites.ts";
 import { uploadCapture } from "./api/captures.ts";
 import { ACCEPTED_EXTENSIONS, checkFile, rejectionMessage, SAFETY_ACK_KEY, uploadFormSchema } from "./upload-logic.ts";
 import { CaptureStatusLine } from "./CaptureStatusLine.tsx";
+import { SiteOptions } from "../../components/SiteOptions.tsx";
 
 type Item = {
   key: string;
@@ -181,11 +182,7 @@ export default function UploadPage() {
                   }}
                 >
                   <option value="">{sites.isPending ? "Loading sites…" : "Pick a site"}</option>
-                  {sites.data?.map((s) => (
-                    <option key={s.id} value={s.id}>
-                      {s.code} · {s.name}
-                    </option>
-                  ))}
+                  <SiteOptions sites={sites.data} />
                 </Select>
               )}
             </Field>

@@ -5,6 +5,7 @@ import { Dialog } from "../../../components/Dialog.tsx";
 import { Field, FormError, Select, useZodForm } from "../../../components/Form.tsx";
 import type { AssetDetail } from "../../../lib/contracts.ts";
 import { useSites } from "../../../lib/sites.ts";
+import { SiteOptions } from "../../../components/SiteOptions.tsx";
 import { moveMotorSchema, useMoveMotor } from "../api/move-motor.ts";
 
 export function MoveMotorButton({ motor }: { motor: AssetDetail }) {
@@ -45,11 +46,7 @@ function MoveForm({ motor, onDone }: { motor: AssetDetail; onDone: () => void })
               form.set("areaId", "");
             }}
           >
-            {sites.data?.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.code} · {s.name}
-              </option>
-            ))}
+            <SiteOptions sites={sites.data} />
           </Select>
         )}
       </Field>
