@@ -45,6 +45,18 @@ describe("manager fleet", () => {
     await h.page.getByRole("heading", { name: "Capture history" }).waitFor();
     // the verdict form is for analysts only
     expect(await h.page.getByTestId("verdict-form").count()).toBe(0);
+    // The trends share one pointer: over the load chart, every trend chart reads out the same capture date.
+    const load = h.page.getByRole("img", { name: "Load percentage over time" });
+    await load.scrollIntoViewIfNeeded();
+    const over = (await load.locator(".u-over").boundingBox())!;
+    await h.page.mouse.move(over.x + over.width * 0.5, over.y + over.height * 0.5);
+    const readouts = h.page.locator("[data-readout]:visible");
+    await expect.poll(() => readouts.count()).toBe(4);
+    const texts = await readouts.allTextContents();
+    const dates = new Set(texts.map((t) => t.split(" · ")[0]));
+    expect(dates.size, texts.join(" | ")).toBe(1);
+    expect(texts.map((t) => t.split(" · ")[1].replace(/[\d.]+ /, ""))).toEqual(expect.arrayContaining(["dB", "%", "mm/s"]));
+    await h.page.mouse.move(0, 0);
     await h.page.waitForLoadState("networkidle").catch(() => undefined);
     await h.screenshot("manager-motor");
     expect(h.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);

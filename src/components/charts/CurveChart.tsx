@@ -61,13 +61,20 @@ export interface CurveChartProps {
   xRange?: [number, number];
   label: string;
   yDigits?: number;
+  /**
+   * Charts with the same key share the pointer: a vertical line at the same x in each (the motor page's trends,
+   * by capture date). Each shows the nearest measured value of its first dotted series through `readout`.
+   */
+  syncKey?: string;
+  /** Text of the value under the pointer (x, y of the nearest measured point), e.g. "12 Oct · 88 %". */
+  readout?: (x: number, y: number) => string;
 }
 
 export function CurveChart(props: CurveChartProps) {
   const { x, series, bands, xLabel, yLabel, xTime, height = 260, label, yDigits } = props;
   const overlay = useRef(props);
   overlay.current = props;
-  const key = `${series.map((s) => s.label).join("|")}|${xLabel}|${yLabel}|${xTime}|${bands?.length}|${props.yRange}|${props.xRange}`;
+  const key = `${series.map((s) => s.label).join("|")}|${xLabel}|${yLabel}|${xTime}|${bands?.length}|${props.yRange}|${props.xRange}|${props.syncKey}`;
   const options = useMemo<Omit<uPlot.Options, "width" | "height">>(
     () => ({
       legend: { show: false },
@@ -91,8 +98,21 @@ export function CurveChart(props: CurveChartProps) {
         axis(xLabel, xTime ? { values: (_u, splits, _i, _space, incr) => dateTicks(splits, incr) } : {}),
         axis(yLabel, { size: 60, values: yDigits === undefined ? undefined : (_u, splits) => splits.map((v) => (v == null ? "" : v.toFixed(yDigits).replace("-", "\u2212"))) }),
       ],
-      cursor: { drag: { x: false, y: false }, points: { show: false } },
-      hooks: { draw: [(u) => drawAnnotations(u, overlay.current)], setCursor: [(u) => showHint(u, overlay.current)] },
+      cursor: {
+        drag: { x: false, y: false },
+        points: { show: false },
+        // synced by date only: a horizontal crosshair would stand at a meaningless height in the other charts
+        ...(props.syncKey ? { y: false, sync: { key: props.syncKey, scales: ["x", null] as [string, null] } } : {}),
+      },
+      hooks: {
+        draw: [(u) => drawAnnotations(u, overlay.current)],
+        setCursor: [
+          (u) => {
+            showHint(u, overlay.current);
+            showReadout(u, overlay.current);
+          },
+        ],
+      },
     }),
     // eslint-disable-next-line react-hooks/exhaustive-deps
     [key],
@@ -130,6 +150,50 @@ function showHint(u: uPlot, p: CurveChartProps) {
     }
   }
   if (u.over.title !== hint) u.over.title = hint;
+}
+
+/** The nearest measured point (within 24 px) of the first dotted series, in a small box at the top of the plot. */
+function showReadout(u: uPlot, p: CurveChartProps) {
+  if (!p.readout) return;
+  let el = u.over.querySelector<HTMLDivElement>("[data-readout]");
+  if (!el) {
+    el = document.createElement("div");
+    el.dataset.readout = "";
+    el.setAttribute("aria-hidden", "true");
+    Object.assign(el.style, {
+      position: "absolute",
+      top: "2px",
+      pointerEvents: "none",
+      whiteSpace: "nowrap",
+      font: MONO_FONT.replace("12px", "11px"),
+      background: "rgba(255,255,255,0.92)",
+      border: "1px solid rgba(89,92,97,0.35)",
+      borderRadius: "2px",
+      padding: "0 4px",
+      color: "#1c1e20",
+    });
+    u.over.appendChild(el);
+  }
+  const left = u.cursor.left;
+  const si = p.series.findIndex((s) => s.points);
+  let best = -1;
+  if (left != null && left >= 0 && si >= 0) {
+    const xs = u.data[0] as ArrayLike<number>;
+    const vals = u.data[si + 1] as ArrayLike<number | null>;
+    let bestD = 24;
+    for (let i = 0; i < xs.length; i++) {
+      if (vals[i] == null) continue;
+      const d = Math.abs(u.valToPos(xs[i], "x") - left);
+      if (d < bestD) (bestD = d), (best = i);
+    }
+    if (best >= 0) {
+      el.textContent = p.readout((u.data[0] as ArrayLike<number>)[best], vals[best] as number);
+      const w = el.offsetWidth;
+      const x = u.valToPos(xs[best], "x");
+      el.style.left = `${Math.max(0, Math.min(u.over.clientWidth - w, x - w / 2))}px`;
+    }
+  }
+  el.style.display = best >= 0 ? "" : "none";
 }
 
 interface Box {

@@ -25,7 +25,11 @@ const GRADE_REGIONS: RegionLabel[] = [
   { from: -100, to: 36, label: "R5 Severe" },
 ];
 
+/** "12 Oct 2026 · 88 %": the trends' shared pointer readout (x in seconds). */
+const readoutOf = (unit: string, digits: number) => (x: number, y: number) => `${formatDate(new Date(x * 1000).toISOString())} · ${y.toFixed(digits)} ${unit}`;
+
 export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoint[] }) {
+  const sync = `trends-${asset.id}`;
   const ts = useMemo(() => points.map((p) => Date.parse(p.takenAt) / 1000), [points]);
   const { outcome } = useMemo(() => sidebandProjection(points), [points]);
   if (points.length === 0) return <EmptyState title="No analysed captures yet">Trends appear after the first analysed capture.</EmptyState>;
@@ -42,7 +46,7 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
   return (
     <div className="grid gap-4 lg:grid-cols-2">
       <TrendBox title="Lower sideband depth below supply" note="higher is healthier; lines are the grade boundaries" wide>
-        <SidebandChart points={points} outcome={outcome} />
+        <SidebandChart points={points} outcome={outcome} syncKey={sync} />
         {points.some((p) => p.rotorAssessable === false) && (
           <p className="flex items-start gap-1.5 text-caption text-ink-muted" data-testid="not-assessable-legend">
             <svg width="12" height="12" aria-hidden="true" className="mt-0.5 shrink-0">
@@ -75,6 +79,8 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
           ]}
           height={220}
           label="Load percentage over time"
+          syncKey={sync}
+          readout={readoutOf("%", 0)}
         />
       </TrendBox>
       <TrendBox title="Slip" note={ratedSlip !== null ? `rated slip ${(ratedSlip * 100).toFixed(2)} % from the nameplate` : undefined}>
@@ -88,6 +94,8 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
           guides={ratedSlip !== null ? [{ y: ratedSlip * 100, label: `rated ${(ratedSlip * 100).toFixed(2)} %` }] : []}
           height={220}
           label="Slip over time"
+          syncKey={sync}
+          readout={readoutOf("%", 2)}
         />
       </TrendBox>
       <TrendBox
@@ -116,6 +124,8 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
             ]}
             height={220}
             label="Vibration RMS over time with ISO zone limits"
+            syncKey={sync}
+            readout={readoutOf("mm/s", 2)}
           />
         ) : (
           <p className="text-ink-muted">No vibration readings for this motor.</p>
@@ -135,7 +145,7 @@ function TrendBox({ title, note, children, wide }: { title: string; note?: strin
   );
 }
 
-function SidebandChart({ points, outcome }: { points: TrendPoint[]; outcome: ProjectionOutcome }) {
+function SidebandChart({ points, outcome, syncKey }: { points: TrendPoint[]; outcome: ProjectionOutcome; syncKey: string }) {
   const chart = useMemo(() => {
     // Graded captures make the line; not-assessable ones with a depth are hollow rings off the line.
     const measured = points.filter((p) => p.sidebandDb !== null && p.rotorAssessable !== false).map((p) => ({ t: Date.parse(p.takenAt), db: p.sidebandDb! }));
@@ -187,6 +197,8 @@ function SidebandChart({ points, outcome }: { points: TrendPoint[]; outcome: Pro
       xRange={chart.xRange}
       guides={GRADE_GUIDES}
       regions={GRADE_REGIONS}
+      syncKey={syncKey}
+      readout={readoutOf("dB", 1)}
       points={[
         ...chart.notAssessable.map((m) => ({
           x: m.t / 1000,
