@@ -38,23 +38,27 @@ describe("estimateFromNameplate", () => {
     expect(rated.powerFactor).toBeLessThan(0.92);
   });
 
-  it("has the assumed design B breakdown torque (2.25 × full load) and a plausible starting current", () => {
+  it("has the assumed design B breakdown torque (2.25 × full load) and realistic starting torque and current", () => {
     const k = keyPoints(est.input);
     within(k.breakdown.torqueNm / ratedTorque, 2.25, 0.001);
     expect(k.breakdown.slip).toBeGreaterThan(0.02);
     expect(k.breakdown.slip).toBeLessThan(0.15);
-    // A single-cage circuit understates standstill current of deep-bar rotors; still several times rated.
-    expect(k.start.currentA / 131).toBeGreaterThan(3);
+    // Deep-bar rotor fitted to typical design B starting values (1.5 × torque, 6.5 × current, from memory).
+    expect(k.start.torqueNm / ratedTorque).toBeGreaterThan(1.2);
+    expect(k.start.torqueNm / ratedTorque).toBeLessThan(2.2);
+    expect(k.start.currentA / 131).toBeGreaterThan(5);
     expect(k.start.currentA / 131).toBeLessThan(8);
   });
 
   it("labels every value a nameplate estimate and states its assumptions, refinement included", () => {
     expect(Object.values(est.sources).every((s) => s === "nameplate-estimate")).toBe(true);
-    expect(Object.keys(est.sources).sort()).toEqual(["r1", "r2", "rc", "rotationalLossW", "x1", "x2", "xm"]);
+    expect(Object.keys(est.sources).sort()).toEqual(["r1", "r2", "rc", "rotationalLossW", "rotorLockedR2", "rotorLockedX2", "x1", "x2", "xm"]);
     expect(est.assumptions.length).toBeGreaterThanOrEqual(6);
     expect(est.assumptions.every((a) => typeof a === "string" && a.length > 20)).toBe(true);
     expect(est.assumptions.join("\n")).toMatch(/X1 : X2 = 0\.4 : 0\.6/);
     expect(est.assumptions.join("\n")).toMatch(/Refined numerically: R2 solved/);
+    expect(est.assumptions.join("\n")).toMatch(/Starting torque assumed 1\.5 × full-load torque and starting current 6\.5 ×.*from memory/);
+    expect(est.assumptions.join("\n")).toMatch(/Deep-bar rotor \(engineering approximation/);
   });
 
   it("fills in frequency and efficiency when the nameplate lacks them", () => {
@@ -108,10 +112,15 @@ describe("estimateFromNameplate", () => {
       fc.property(plate, (p) => {
         const e = estimateFromNameplate(p);
         const pt = evaluateAtSlip(e.input, p.slip);
+        const k = keyPoints(e.input);
         return (
           Math.abs(pt.outputPowerW / (p.ratedKw * 1000) - 1) < 0.01 &&
           Math.abs(pt.statorCurrentA / p.ratedCurrent - 1) < 0.05 &&
-          Math.abs(pt.efficiency - p.efficiency) < 0.01
+          Math.abs(pt.efficiency - p.efficiency) < 0.01 &&
+          // Starting torque and current land near the typical values wherever the fit can reach them.
+          k.start.torqueNm > 0 &&
+          k.start.currentA / p.ratedCurrent > 4.5 &&
+          k.start.currentA / p.ratedCurrent < 8
         );
       }),
       { numRuns: 40 },

@@ -50,3 +50,30 @@ export function typicalEfficiency(ratedKw: number): number {
  * Rotor copper loss is not assumed: it follows from the rated slip (P_rcl = s·P_ag). Stator copper takes the rest.
  */
 export const LOSS_SHARE = { core: 0.2, rotational: 0.2, statorCopperMin: 0.15 } as const;
+
+/**
+ * Typical starting (locked-rotor) torque in multiples of full-load torque, typical values from memory inside the
+ * NEMA design table (A and B 70–275 % by size, C 200–250 %, D 275 %): A and B 1.5 × up to 75 kW and 1.3 × above
+ * (large motors start with less torque per unit; NEMA MG 1 sets minimums by size), C 2.0 × (the bottom of its
+ * range, so its running peak, 2.1 ×, stays the highest torque), D 2.75 ×. Wound rotors are not given one: they
+ * start on external resistance and have no deep bars.
+ */
+export function typicalLockedRotorTorqueRatio(design: DesignLetter, ratedKw: number): number | null {
+  switch (design) {
+    case "A":
+    case "B":
+      return ratedKw > 75 ? 1.3 : 1.5;
+    case "C":
+      return 2.0;
+    case "D":
+      return 2.75;
+    case "wound":
+      return null;
+  }
+}
+
+/**
+ * Typical starting (locked-rotor) current in multiples of full-load current, typical values from memory:
+ * A 7.5 × (the table's "higher locked-rotor current"), B and C 6.5 ×, D 6.0 × (high-resistance rotor).
+ */
+export const LOCKED_ROTOR_CURRENT_RATIO: Record<Exclude<DesignLetter, "wound">, number> = { A: 7.5, B: 6.5, C: 6.5, D: 6.0 };

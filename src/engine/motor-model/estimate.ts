@@ -1,11 +1,20 @@
 // A circuit estimated from the nameplate alone. The nameplate fixes rated output, current, slip and (given
 // or assumed) efficiency; the usual assumptions below fill in the rest, then the circuit is refined
 // numerically so it reproduces the rated point exactly. Every assumption is returned as a sentence for the screen.
+// Cage rotors (design A–D) get a deep-bar rotor (circuit.ts, `rotorAtSlip`) whose standstill R2 and X2 are fitted
+// to typical starting torque and current for the design letter; the running-point fits are not affected by it.
 
 import type { Nameplate } from "../types.ts";
-import { evaluateAtSlip } from "./circuit.ts";
-import { BREAKDOWN_TORQUE_RATIO, LOSS_SHARE, STATOR_LEAKAGE_SHARE, typicalEfficiency } from "./design.ts";
-import { bisect } from "./search.ts";
+import { DEEP_BAR_XI_AT_STANDSTILL, deepBarWeights, evaluateAtSlip, torqueAtSlip } from "./circuit.ts";
+import {
+  BREAKDOWN_TORQUE_RATIO,
+  LOCKED_ROTOR_CURRENT_RATIO,
+  LOSS_SHARE,
+  STATOR_LEAKAGE_SHARE,
+  typicalEfficiency,
+  typicalLockedRotorTorqueRatio,
+} from "./design.ts";
+import { bisect, goldenMax } from "./search.ts";
 import { syncRpm } from "./speed.ts";
 import { thevenin } from "./thevenin.ts";
 import {
@@ -46,6 +55,18 @@ function ratedFrequency(np: NameplateForModel, assumptions: string[]): number {
   const f = candidates.reduce((a, b) => (syncRpm(a, np.poles) - np.ratedRpm <= syncRpm(b, np.poles) - np.ratedRpm ? a : b));
   assumptions.push(`Rated frequency not given: ${f} Hz assumed (its synchronous speed is nearest above the rated ${np.ratedRpm} rpm).`);
   return f;
+}
+
+/**
+ * Torque at the running-region peak: the maximum near the closed-form s_max (between half and twice it).
+ * For a single cage this is the breakdown torque; for a deep-bar rotor it is the breakdown torque whenever the
+ * starting torque is lower (design A–C), and the running peak of design D, whose starting torque equals it.
+ */
+function runningPeakTorque(input: MotorModelInput): number {
+  const sm = thevenin(input).exact.sMax;
+  const hi = Math.min(1, 2 * sm);
+  const lo = Math.min(sm / 2, hi / 2);
+  return torqueAtSlip(input, goldenMax((s) => torqueAtSlip(input, s), lo, hi, 1e-12));
 }
 
 function validate(np: NameplateForModel): void {
@@ -142,53 +163,75 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
     `Breakdown torque assumed ${breakdownRatio} × full-load torque (mid-range for design ${design} in the NEMA design table); it sets X1 + X2.`,
   );
 
+  // Deep-bar rotor for cage designs: standstill torque and current targets (typical values, from memory).
+  const lrTorqueRatio = design === "wound" ? null : typicalLockedRotorTorqueRatio(design, np.ratedKw);
+  const lrCurrentRatio = design === "wound" ? null : LOCKED_ROTOR_CURRENT_RATIO[design];
+  const deepBar = lrTorqueRatio !== null && lrCurrentRatio !== null;
+
   // Starting guesses, then Gauss–Seidel passes of one-dimensional solves.
   let xLeak = zBase / 6;
   const sinPhi = Math.sqrt(1 - pf * pf);
   let xm = zBase / Math.max(0.1, sinPhi - iPhase * xLeak / vPhase);
   let rc = (3 * vPhase * vPhase) / Math.max(coreW, 1e-6);
   let r2 = sRated * zBase;
-  const build = (p: Partial<CircuitParams>): MotorModelInput => ({
-    lineVoltage: np.ratedVoltage,
-    frequencyHz: f,
-    poles: np.poles,
-    connection,
-    params: { r1, x1: share * xLeak, r2, x2: (1 - share) * xLeak, xm, rc: coreW > 0 ? rc : null, ...p },
-    rotationalLossW: rotationalW,
-  });
-  const split = (x: number) => ({ x1: share * x, x2: (1 - share) * x });
+  // Deep bar: standstill R2 and X2 as ratios of the running values, so they follow r2 and X1 + X2 as those are refit.
+  let kR = 1;
+  let kX = 1;
+  type Fit = { r2: number; xm: number; xLeak: number; rc: number; kR: number; kX: number };
+  const build = (p: Partial<Fit> = {}): MotorModelInput => {
+    const v = { r2, xm, xLeak, rc, kR, kX, ...p };
+    const x2 = (1 - share) * v.xLeak;
+    const params: CircuitParams = { r1, x1: share * v.xLeak, r2: v.r2, x2, xm: v.xm, rc: coreW > 0 ? v.rc : null };
+    if (deepBar) {
+      params.rotorLockedR2 = v.kR * v.r2;
+      params.rotorLockedX2 = v.kX * x2;
+    }
+    return { lineVoltage: np.ratedVoltage, frequencyHz: f, poles: np.poles, connection, params, rotationalLossW: rotationalW };
+  };
   const logSolve = (g: (x: number) => number, lo: number, hi: number) => Math.exp(bisect((u) => g(Math.exp(u)), Math.log(lo), Math.log(hi)));
 
   let currentMatched = true;
+  let lrTorqueMatched = true;
+  let lrCurrentMatched = true;
+  const lrTorque = (lrTorqueRatio ?? 0) * fullLoadTorque;
+  const lrCurrent = (lrCurrentRatio ?? 0) * np.ratedCurrent;
+  // Standstill leakage of a deep-bar or double-cage rotor is rarely below about a quarter of its running value.
+  const KX_MIN = 0.25;
   for (let pass = 0; pass < 200; pass++) {
-    const before = [r2, xm, xLeak, rc];
+    const before = [r2, xm, xLeak, rc, kR, kX];
 
-    // R2 so that output at rated slip equals rated output, on the stable (low-slip) side of the torque peak.
-    const th = thevenin(build({})).exact;
-    const r2Peak = sRated * Math.hypot(th.rth, th.xth + (1 - share) * xLeak);
-    const outErr = (x: number) => evaluateAtSlip(build({ r2: x }), sRated).outputPowerW - pOut;
-    if (outErr(r2Peak) < 0) {
-      throw new MotorModelError(
-        `No rotor resistance gives ${np.ratedKw} kW at ${np.ratedRpm} rpm with these assumptions: check rated kW, voltage, current and rpm.`,
-      );
-    }
-    let hi = r2Peak * 2;
-    while (outErr(hi) > 0 && hi < r2Peak * 1e6) hi *= 2;
-    r2 = logSolve(outErr, r2Peak, hi);
+    // R2 and Xm together (a few inner passes: the two interact strongly, and alternating them one pass at a time
+    // spirals in slowly on small high-slip motors).
+    for (let inner = 0; inner < 30; inner++) {
+      const rx = [r2, xm];
+      // R2 so that output at rated slip equals rated output, on the stable (low-slip) side of the torque peak.
+      const th = thevenin(build({})).exact;
+      const r2Peak = sRated * Math.hypot(th.rth, th.xth + (1 - share) * xLeak);
+      const outErr = (x: number) => evaluateAtSlip(build({ r2: x }), sRated).outputPowerW - pOut;
+      if (outErr(r2Peak) < 0) {
+        throw new MotorModelError(
+          `No rotor resistance gives ${np.ratedKw} kW at ${np.ratedRpm} rpm with these assumptions: check rated kW, voltage, current and rpm.`,
+        );
+      }
+      let hi = r2Peak * 2;
+      while (outErr(hi) > 0 && hi < r2Peak * 1e6) hi *= 2;
+      r2 = logSolve(outErr, r2Peak, hi);
 
-    // Xm so that the model draws rated current at rated slip (more Xm, less magnetising current).
-    const curErr = (x: number) => evaluateAtSlip(build({ xm: x }), sRated).statorCurrentA - np.ratedCurrent;
-    const xmLo = 0.05 * zBase;
-    const xmHi = 1e3 * zBase;
-    if (curErr(xmHi) > 0) {
-      xm = xmHi;
-      currentMatched = false;
-    } else if (curErr(xmLo) < 0) {
-      xm = xmLo;
-      currentMatched = false;
-    } else {
-      xm = logSolve(curErr, xmLo, xmHi);
-      currentMatched = true;
+      // Xm so that the model draws rated current at rated slip (more Xm, less magnetising current).
+      const curErr = (x: number) => evaluateAtSlip(build({ xm: x }), sRated).statorCurrentA - np.ratedCurrent;
+      const xmLo = 0.05 * zBase;
+      const xmHi = 1e3 * zBase;
+      if (curErr(xmHi) > 0) {
+        xm = xmHi;
+        currentMatched = false;
+      } else if (curErr(xmLo) < 0) {
+        xm = xmLo;
+        currentMatched = false;
+      } else {
+        xm = logSolve(curErr, xmLo, xmHi);
+        currentMatched = true;
+      }
+      if (Math.abs(r2 - rx[0]) / rx[0] + Math.abs(xm - rx[1]) / rx[1] < 1e-13) break;
     }
 
     // Rc so the core loss at the rated point is the assumed share.
@@ -197,15 +240,51 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
       rc *= modelCore / coreW;
     }
 
-    // X1 + X2 so that the breakdown torque is the assumed multiple of full-load torque. The exact Thevenin
-    // closed form is exact for this circuit, and τ_max falls steadily as leakage reactance grows.
-    const bdErr = (x: number) => thevenin(build(split(x))).exact.tauMax - breakdownRatio * fullLoadTorque;
+    // X1 + X2 so that the breakdown torque is the assumed multiple of full-load torque; τ_max falls steadily as
+    // leakage reactance grows. Single cage: the exact Thevenin closed form is exact for this circuit. Deep bar: the
+    // running peak of the full circuit, found numerically (R2(s), X2(s) differ slightly from r2, x2 there).
+    const peak = (input: MotorModelInput) => (deepBar ? runningPeakTorque(input) : thevenin(input).exact.tauMax);
+    const bdErr = (x: number) => peak(build({ xLeak: x })) - breakdownRatio * fullLoadTorque;
     const xLo = 1e-4 * zBase;
     const xHi = 2 * zBase;
     if (bdErr(xLo) > 0 && bdErr(xHi) < 0) xLeak = logSolve(bdErr, xLo, xHi);
 
-    const moved = [r2, xm, xLeak, rc].reduce((m, v, i) => Math.max(m, Math.abs(v - before[i]) / Math.abs(before[i])), 0);
-    if (moved < 1e-11) break;
+    // Deep bar: standstill R2 for the starting torque, standstill X2 for the starting current (a few inner passes,
+    // the two interact). Starting torque rises with R2 up to R2 = |R_th + j(X_th + X2)|, the standstill peak.
+    if (deepBar) {
+      for (let inner = 0; inner < 50; inner++) {
+        const kBefore = [kR, kX];
+        const th = thevenin(build({})).exact;
+        const kRMax = Math.hypot(th.rth, th.xth + kX * (1 - share) * xLeak) / r2;
+        const tErr = (k: number) => evaluateAtSlip(build({ kR: k }), 1).inducedTorqueNm - lrTorque;
+        if (kRMax <= 1 || tErr(1) >= 0) {
+          kR = 1;
+          lrTorqueMatched = kRMax > 1 && Math.abs(tErr(1)) < 1e-6 * lrTorque;
+        } else if (tErr(kRMax) <= 0) {
+          kR = kRMax;
+          lrTorqueMatched = false;
+        } else {
+          kR = logSolve(tErr, 1, kRMax);
+          lrTorqueMatched = true;
+        }
+        // Less standstill reactance, more starting current.
+        const iErr = (k: number) => evaluateAtSlip(build({ kX: k }), 1).statorCurrentA - lrCurrent;
+        if (iErr(1) >= 0) {
+          kX = 1;
+          lrCurrentMatched = Math.abs(iErr(1)) < 1e-6 * lrCurrent;
+        } else if (iErr(KX_MIN) <= 0) {
+          kX = KX_MIN;
+          lrCurrentMatched = false;
+        } else {
+          kX = logSolve(iErr, KX_MIN, 1);
+          lrCurrentMatched = true;
+        }
+        if (Math.abs(kR - kBefore[0]) / kBefore[0] + Math.abs(kX - kBefore[1]) / kBefore[1] < 1e-13) break;
+      }
+    }
+
+    const moved = [r2, xm, xLeak, rc, kR, kX].reduce((m, v, i) => Math.max(m, Math.abs(v - before[i]) / Math.abs(before[i])), 0);
+    if (moved < (deepBar ? 1e-9 : 1e-11)) break;
   }
 
   const input = build({});
@@ -214,20 +293,56 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
   assumptions.push(
     `Refined numerically: R2 solved so the model gives ${np.ratedKw} kW at the rated slip ${sRated.toFixed(4)} ` +
       `(${ratedPoint.outputPowerW.toFixed(0)} W, ${outErrPct >= 0 ? "+" : ""}${outErrPct.toFixed(3)} %), Xm so it draws the rated ` +
-      `${np.ratedCurrent} A (model ${ratedPoint.statorCurrentA.toFixed(1)} A), Rc for the assumed core loss and X1 + X2 for the assumed breakdown torque.`,
+      `${np.ratedCurrent} A (model ${ratedPoint.statorCurrentA.toFixed(1)} A), Rc for the assumed core loss and X1 + X2 for the assumed breakdown torque` +
+      (deepBar ? "; then the standstill R2 and X2 of the deep-bar rotor for the assumed starting torque and current." : "."),
   );
   if (!currentMatched) {
     assumptions.push("The rated current could not be matched within plausible magnetising reactance: the nameplate figures may disagree.");
   }
-  assumptions.push(
-    "Single-cage circuit with constant R2 (from the rated point): near standstill, deep-bar and double-cage rotors gain rotor " +
-      "resistance and lose leakage reactance, so their real starting torque and current are usually higher than shown; the running region is the reliable part.",
-  );
+  if (deepBar) {
+    const start = evaluateAtSlip(input, 1);
+    const p = input.params;
+    assumptions.push(
+      `Starting torque assumed ${lrTorqueRatio} × full-load torque and starting current ${lrCurrentRatio} × rated current ` +
+        `(typical values for design ${design}, from memory; the NEMA design table gives locked-rotor torque ` +
+        `${design === "C" ? "200–250 %" : design === "D" ? "275 %" : "70–275 % by size"}, and NEMA MG 1 sets minimums by size). ` +
+        `Model at standstill: ${(start.inducedTorqueNm / fullLoadTorque).toFixed(2)} × torque, ${(start.statorCurrentA / np.ratedCurrent).toFixed(2)} × current.`,
+    );
+    assumptions.push(
+      `Deep-bar rotor (engineering approximation of deep-bar and double-cage rotors): R2 and X2 vary with rotor frequency s·f, ` +
+        `R2(s) = R2₀ + (R2_LR − R2₀)·g_R(s), X2(s) = X2₀ − (X2₀ − X2_LR)·g_X(s), with g the normalised skin-effect factors of a ` +
+        `rectangular bar, ξ = ${DEEP_BAR_XI_AT_STANDSTILL}·√s (0 at synchronous speed, 1 at standstill, ` +
+        `${deepBarWeights(sRated).gR.toPrecision(2)} at the rated slip). ` +
+        `Running R2₀ = ${p.r2.toFixed(4)} Ω, X2₀ = ${p.x2.toFixed(4)} Ω; standstill R2_LR = ${(p.rotorLockedR2 as number).toFixed(4)} Ω ` +
+        `(${kR.toFixed(2)} ×), X2_LR = ${(p.rotorLockedX2 as number).toFixed(4)} Ω (${kX.toFixed(2)} ×), fitted to the starting torque and current. ` +
+        "The rated point and breakdown are barely affected; the shape of the curve between standstill and breakdown (pull-up) is approximate.",
+    );
+    if (!lrTorqueMatched || !lrCurrentMatched) {
+      assumptions.push(
+        `The assumed starting ${!lrTorqueMatched ? "torque" : "current"}${!lrTorqueMatched && !lrCurrentMatched ? " and current" : ""} could not be ` +
+          "reached with a plausible rotor (the single-cage values already exceed it, or the stator leakage alone limits it): the closest is used.",
+      );
+    }
+  } else {
+    assumptions.push(
+      "Single-cage circuit with constant R2 (from the rated point), as for a wound rotor with its slip rings shorted; " +
+        "starting with external rotor resistance gives more torque and less current than shown. The running region is the reliable part.",
+    );
+  }
 
   const est = "nameplate-estimate" as const;
   return {
     input,
-    sources: { r1: est, x1: est, r2: est, x2: est, xm: est, rc: est, rotationalLossW: est },
+    sources: {
+      r1: est,
+      x1: est,
+      r2: est,
+      x2: est,
+      xm: est,
+      rc: est,
+      ...(deepBar ? { rotorLockedR2: est, rotorLockedX2: est } : {}),
+      rotationalLossW: est,
+    },
     assumptions,
     ratedPoint,
   };

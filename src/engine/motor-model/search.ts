@@ -33,14 +33,32 @@ export function goldenMax(f: (x: number) => number, lo: number, hi: number, tol 
 
 /**
  * Maximiser of f over [lo, hi]: a coarse grid first (so a wrong bracket cannot trap the search),
- * then golden-section between the grid neighbours of the best sample.
+ * then golden-section between the grid neighbours of the best sample. When the grid shows more than one
+ * local maximum (a deep-bar rotor's torque can peak both near running speed and at standstill), the few
+ * best are each refined and the highest wins; for a unimodal f this is the single refinement.
  */
 export function gridThenGoldenMax(f: (x: number) => number, grid: number[]): number {
+  const values = grid.map(f);
   let best = 0;
-  for (let i = 1; i < grid.length; i++) if (f(grid[i]) > f(grid[best])) best = i;
-  const lo = grid[Math.max(0, best - 1)];
-  const hi = grid[Math.min(grid.length - 1, best + 1)];
-  return goldenMax(f, Math.min(lo, hi), Math.max(lo, hi));
+  for (let i = 1; i < grid.length; i++) if (values[i] > values[best]) best = i;
+  const peaks = [best];
+  for (let i = 0; i < grid.length; i++) {
+    if (i === best) continue;
+    const left = i === 0 ? -Infinity : values[i - 1];
+    const right = i === grid.length - 1 ? -Infinity : values[i + 1];
+    if (values[i] > left && values[i] > right) peaks.push(i);
+  }
+  const refine = (i: number) => {
+    const lo = grid[Math.max(0, i - 1)];
+    const hi = grid[Math.min(grid.length - 1, i + 1)];
+    return goldenMax(f, Math.min(lo, hi), Math.max(lo, hi));
+  };
+  const candidates = peaks
+    .slice(1)
+    .sort((a, b) => values[b] - values[a])
+    .slice(0, 3)
+    .map(refine);
+  return candidates.reduce((x, c) => (f(c) > f(x) ? c : x), refine(best));
 }
 
 /** Root of a continuous f with f(lo) and f(hi) of opposite signs. */
