@@ -14,7 +14,7 @@ import {
   typicalEfficiency,
   typicalLockedRotorTorqueRatio,
 } from "./design.ts";
-import { bisect, goldenMax } from "./search.ts";
+import { brentRoot, goldenMax } from "./search.ts";
 import { syncRpm } from "./speed.ts";
 import { thevenin } from "./thevenin.ts";
 import {
@@ -188,104 +188,125 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
     }
     return { lineVoltage: np.ratedVoltage, frequencyHz: f, poles: np.poles, connection, params, rotationalLossW: rotationalW };
   };
-  const logSolve = (g: (x: number) => number, lo: number, hi: number) => Math.exp(bisect((u) => g(Math.exp(u)), Math.log(lo), Math.log(hi)));
+  const logSolve = (g: (x: number) => number, lo: number, hi: number) => Math.exp(brentRoot((u) => g(Math.exp(u)), Math.log(lo), Math.log(hi)));
 
-  let currentMatched = true;
-  let lrTorqueMatched = true;
-  let lrCurrentMatched = true;
   const lrTorque = (lrTorqueRatio ?? 0) * fullLoadTorque;
   const lrCurrent = (lrCurrentRatio ?? 0) * np.ratedCurrent;
   // Standstill leakage of a deep-bar or double-cage rotor is rarely below about a quarter of its running value.
   const KX_MIN = 0.25;
-  for (let pass = 0; pass < 200; pass++) {
-    const before = [r2, xm, xLeak, rc, kR, kX];
 
-    // R2 and Xm together (a few inner passes: the two interact strongly, and alternating them one pass at a time
-    // spirals in slowly on small high-slip motors).
-    for (let inner = 0; inner < 30; inner++) {
-      const rx = [r2, xm];
-      // R2 so that output at rated slip equals rated output, on the stable (low-slip) side of the torque peak.
-      const th = thevenin(build({})).exact;
-      const r2Peak = sRated * Math.hypot(th.rth, th.xth + (1 - share) * xLeak);
-      const outErr = (x: number) => evaluateAtSlip(build({ r2: x }), sRated).outputPowerW - pOut;
-      if (outErr(r2Peak) < 0) {
-        throw new MotorModelError(
-          `No rotor resistance gives ${np.ratedKw} kW at ${np.ratedRpm} rpm with these assumptions: check rated kW, voltage, current and rpm.`,
-        );
-      }
-      let hi = r2Peak * 2;
-      while (outErr(hi) > 0 && hi < r2Peak * 1e6) hi *= 2;
-      r2 = logSolve(outErr, r2Peak, hi);
+  // Each target is met by a nested one-dimensional solve (an inner solve inside the function the outer one
+  // brackets), never by alternating two solves: alternating R2 and Xm one after the other can circle for ever
+  // on high-slip nameplates (the two are strongly coupled there) and stop with the rated output several per cent off.
 
-      // Xm so that the model draws rated current at rated slip (more Xm, less magnetising current).
-      const curErr = (x: number) => evaluateAtSlip(build({ xm: x }), sRated).statorCurrentA - np.ratedCurrent;
-      const xmLo = 0.05 * zBase;
-      const xmHi = 1e3 * zBase;
-      if (curErr(xmHi) > 0) {
-        xm = xmHi;
-        currentMatched = false;
-      } else if (curErr(xmLo) < 0) {
-        xm = xmLo;
-        currentMatched = false;
-      } else {
-        xm = logSolve(curErr, xmLo, xmHi);
-        currentMatched = true;
-      }
-      if (Math.abs(r2 - rx[0]) / rx[0] + Math.abs(xm - rx[1]) / rx[1] < 1e-13) break;
+  /** R2 that gives rated output at rated slip on the stable (low-slip) side of the torque peak; null when none can. */
+  const solveR2 = (p: Partial<Fit>): number | null => {
+    const th = thevenin(build(p)).exact;
+    const r2Peak = sRated * Math.hypot(th.rth, th.xth + (1 - share) * (p.xLeak ?? xLeak));
+    const outErr = (x: number) => evaluateAtSlip(build({ ...p, r2: x }), sRated).outputPowerW - pOut;
+    if (outErr(r2Peak) < 0) return null;
+    let hi = r2Peak * 2;
+    while (outErr(hi) > 0 && hi < r2Peak * 1e6) hi *= 2;
+    return logSolve(outErr, r2Peak, hi);
+  };
+  /**
+   * R2 and Xm together: Xm so the model draws rated current at rated slip (more Xm, less magnetising current),
+   * with R2 re-solved for rated output at every trial Xm. Too little Xm to reach rated output at all counts as
+   * too much current (the search moves to more Xm).
+   */
+  const solveRatedPoint = (): { r2: number; xm: number; currentMatched: boolean } => {
+    const curErr = (x: number) => {
+      const r = solveR2({ xm: x });
+      return r === null ? Infinity : evaluateAtSlip(build({ xm: x, r2: r }), sRated).statorCurrentA - np.ratedCurrent;
+    };
+    const xmLo = 0.05 * zBase;
+    const xmHi = 1e3 * zBase;
+    let x: number;
+    let matched = true;
+    if (curErr(xmHi) > 0) {
+      x = xmHi;
+      matched = false;
+    } else if (curErr(xmLo) < 0) {
+      x = xmLo;
+      matched = false;
+    } else x = logSolve(curErr, xmLo, xmHi);
+    const r = solveR2({ xm: x });
+    if (r === null) {
+      throw new MotorModelError(
+        `No rotor resistance gives ${np.ratedKw} kW at ${np.ratedRpm} rpm with these assumptions: check rated kW, voltage, current and rpm.`,
+      );
     }
+    return { r2: r, xm: x, currentMatched: matched };
+  };
+
+  /** Starting torque with standstill R2 = k·R2 for a trial standstill X2 ratio; torque rises with k up to the standstill peak. */
+  const solveStartTorque = (kXTry: number): { kR: number; matched: boolean } => {
+    const th = thevenin(build({})).exact; // the stator side only: independent of the rotor values
+    const kRMax = Math.hypot(th.rth, th.xth + kXTry * (1 - share) * xLeak) / r2;
+    const tErr = (k: number) => evaluateAtSlip(build({ kR: k, kX: kXTry }), 1).inducedTorqueNm - lrTorque;
+    if (kRMax <= 1 || tErr(1) >= 0) return { kR: 1, matched: kRMax > 1 && Math.abs(tErr(1)) < 1e-6 * lrTorque };
+    if (tErr(kRMax) <= 0) return { kR: kRMax, matched: false };
+    return { kR: logSolve(tErr, 1, kRMax), matched: true };
+  };
+  /**
+   * Standstill X2 for the starting current, with standstill R2 re-solved for the starting torque at every trial
+   * (less reactance, more current, with the torque held). The torque has priority where both cannot be met.
+   */
+  const solveStart = (): { kR: number; kX: number; torqueMatched: boolean; currentMatched: boolean } => {
+    const iErr = (k: number) => evaluateAtSlip(build({ kR: solveStartTorque(k).kR, kX: k }), 1).statorCurrentA - lrCurrent;
+    let k: number;
+    let matched = true;
+    const atOne = iErr(1);
+    if (atOne >= 0) {
+      k = 1;
+      matched = Math.abs(atOne) < 1e-6 * lrCurrent;
+    } else if (iErr(KX_MIN) <= 0) {
+      k = KX_MIN;
+      matched = false;
+    } else k = logSolve(iErr, KX_MIN, 1);
+    const t = solveStartTorque(k);
+    return { kR: t.kR, kX: k, torqueMatched: t.matched, currentMatched: matched };
+  };
+
+  // X1 + X2 so that the breakdown torque is the assumed multiple of full-load torque; τ_max falls steadily as
+  // leakage reactance grows. Single cage: the exact Thevenin closed form is exact for this circuit. Deep bar: the
+  // running peak of the full circuit, found numerically (R2(s), X2(s) differ slightly from r2, x2 there).
+  const peak = (input: MotorModelInput) => (deepBar ? runningPeakTorque(input) : thevenin(input).exact.tauMax);
+  const breakdownTarget = breakdownRatio * fullLoadTorque;
+
+  // The targets interact only weakly (the breakdown hardly depends on R2, the rated point hardly on the standstill
+  // values), so passes over them converge quickly.
+  let currentMatched = true;
+  let lrTorqueMatched = true;
+  let lrCurrentMatched = true;
+  let converged = false;
+  for (let pass = 0; pass < 100 && !converged; pass++) {
+    const before = [r2, xm, xLeak, rc, kR, kX];
+    ({ r2, xm, currentMatched } = solveRatedPoint());
 
     // Rc so the core loss at the rated point is the assumed share.
-    if (coreW > 0) {
-      const modelCore = evaluateAtSlip(build({}), sRated).coreLossW;
-      rc *= modelCore / coreW;
-    }
+    if (coreW > 0) rc *= evaluateAtSlip(build({}), sRated).coreLossW / coreW;
 
-    // X1 + X2 so that the breakdown torque is the assumed multiple of full-load torque; τ_max falls steadily as
-    // leakage reactance grows. Single cage: the exact Thevenin closed form is exact for this circuit. Deep bar: the
-    // running peak of the full circuit, found numerically (R2(s), X2(s) differ slightly from r2, x2 there).
-    const peak = (input: MotorModelInput) => (deepBar ? runningPeakTorque(input) : thevenin(input).exact.tauMax);
-    const bdErr = (x: number) => peak(build({ xLeak: x })) - breakdownRatio * fullLoadTorque;
+    const bdErr = (x: number) => peak(build({ xLeak: x })) - breakdownTarget;
     const xLo = 1e-4 * zBase;
     const xHi = 2 * zBase;
     if (bdErr(xLo) > 0 && bdErr(xHi) < 0) xLeak = logSolve(bdErr, xLo, xHi);
 
-    // Deep bar: standstill R2 for the starting torque, standstill X2 for the starting current (a few inner passes,
-    // the two interact). Starting torque rises with R2 up to R2 = |R_th + j(X_th + X2)|, the standstill peak.
-    if (deepBar) {
-      for (let inner = 0; inner < 50; inner++) {
-        const kBefore = [kR, kX];
-        const th = thevenin(build({})).exact;
-        const kRMax = Math.hypot(th.rth, th.xth + kX * (1 - share) * xLeak) / r2;
-        const tErr = (k: number) => evaluateAtSlip(build({ kR: k }), 1).inducedTorqueNm - lrTorque;
-        if (kRMax <= 1 || tErr(1) >= 0) {
-          kR = 1;
-          lrTorqueMatched = kRMax > 1 && Math.abs(tErr(1)) < 1e-6 * lrTorque;
-        } else if (tErr(kRMax) <= 0) {
-          kR = kRMax;
-          lrTorqueMatched = false;
-        } else {
-          kR = logSolve(tErr, 1, kRMax);
-          lrTorqueMatched = true;
-        }
-        // Less standstill reactance, more starting current.
-        const iErr = (k: number) => evaluateAtSlip(build({ kX: k }), 1).statorCurrentA - lrCurrent;
-        if (iErr(1) >= 0) {
-          kX = 1;
-          lrCurrentMatched = Math.abs(iErr(1)) < 1e-6 * lrCurrent;
-        } else if (iErr(KX_MIN) <= 0) {
-          kX = KX_MIN;
-          lrCurrentMatched = false;
-        } else {
-          kX = logSolve(iErr, KX_MIN, 1);
-          lrCurrentMatched = true;
-        }
-        if (Math.abs(kR - kBefore[0]) / kBefore[0] + Math.abs(kX - kBefore[1]) / kBefore[1] < 1e-13) break;
-      }
-    }
+    if (deepBar) ({ kR, kX, torqueMatched: lrTorqueMatched, currentMatched: lrCurrentMatched } = solveStart());
 
     const moved = [r2, xm, xLeak, rc, kR, kX].reduce((m, v, i) => Math.max(m, Math.abs(v - before[i]) / Math.abs(before[i])), 0);
-    if (moved < (deepBar ? 1e-9 : 1e-11)) break;
+    converged = moved < 1e-10;
   }
+  // The rated point comes first: solve it once more for the final leakage and standstill values, then check it.
+  ({ r2, xm, currentMatched } = solveRatedPoint());
+  const check = evaluateAtSlip(build({}), sRated);
+  if (!(Math.abs(check.outputPowerW / pOut - 1) < 1e-6) || (currentMatched && !(Math.abs(check.statorCurrentA / np.ratedCurrent - 1) < 1e-6))) {
+    throw new MotorModelError(
+      `The estimate could not reproduce the rated point (model ${check.outputPowerW.toFixed(0)} W, ${check.statorCurrentA.toFixed(2)} A at the rated slip): ` +
+        "check rated kW, voltage, current, rpm and efficiency.",
+    );
+  }
+  const breakdownMatched = Math.abs(peak(build({})) / breakdownTarget - 1) < 1e-3;
 
   const input = build({});
   const ratedPoint = evaluateAtSlip(input, sRated);
@@ -299,14 +320,22 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
   if (!currentMatched) {
     assumptions.push("The rated current could not be matched within plausible magnetising reactance: the nameplate figures may disagree.");
   }
+  if (!breakdownMatched) {
+    assumptions.push(
+      `The assumed breakdown torque could not be reached with any leakage reactance: the model's is ${(peak(input) / fullLoadTorque).toFixed(2)} × full-load torque.`,
+    );
+  }
   if (deepBar) {
     const start = evaluateAtSlip(input, 1);
     const p = input.params;
+    const startTorque = start.inducedTorqueNm / fullLoadTorque;
+    const startCurrent = start.statorCurrentA / np.ratedCurrent;
     assumptions.push(
       `Starting torque assumed ${lrTorqueRatio} × full-load torque and starting current ${lrCurrentRatio} × rated current ` +
         `(typical values for design ${design}, from memory; the NEMA design table gives locked-rotor torque ` +
-        `${design === "C" ? "200–250 %" : design === "D" ? "275 %" : "70–275 % by size"}, and NEMA MG 1 sets minimums by size). ` +
-        `Model at standstill: ${(start.inducedTorqueNm / fullLoadTorque).toFixed(2)} × torque, ${(start.statorCurrentA / np.ratedCurrent).toFixed(2)} × current.`,
+        `${design === "C" ? "200–250 %" : design === "D" ? "275 %" : "70–275 % by size"} and locked-rotor current 600–700 %, ` +
+        `and NEMA MG 1 sets minimum torques and maximum currents by size). ` +
+        `Model at standstill: ${startTorque.toFixed(2)} × torque, ${startCurrent.toFixed(2)} × current.`,
     );
     assumptions.push(
       `Deep-bar rotor (engineering approximation of deep-bar and double-cage rotors): R2 and X2 vary with rotor frequency s·f, ` +
@@ -317,10 +346,22 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
         `(${kR.toFixed(2)} ×), X2_LR = ${(p.rotorLockedX2 as number).toFixed(4)} Ω (${kX.toFixed(2)} ×), fitted to the starting torque and current. ` +
         "The rated point and breakdown are barely affected; the shape of the curve between standstill and breakdown (pull-up) is approximate.",
     );
-    if (!lrTorqueMatched || !lrCurrentMatched) {
+    if (!lrTorqueMatched) {
       assumptions.push(
-        `The assumed starting ${!lrTorqueMatched ? "torque" : "current"}${!lrTorqueMatched && !lrCurrentMatched ? " and current" : ""} could not be ` +
-          "reached with a plausible rotor (the single-cage values already exceed it, or the stator leakage alone limits it): the closest is used.",
+        kR === 1
+          ? `Starting torque ${startTorque.toFixed(2)} ×, above the typical ${lrTorqueRatio} ×: the rated slip fixes the running rotor resistance, ` +
+              "and a cage rotor's resistance only rises towards standstill, so this is the least the model can start with at this current."
+          : `Starting torque ${startTorque.toFixed(2)} ×, below the typical ${lrTorqueRatio} ×: the most any rotor resistance gives at standstill with this stator.`,
+      );
+    }
+    if (!lrCurrentMatched) {
+      assumptions.push(
+        kX === 1
+          ? `Starting current ${startCurrent.toFixed(2)} ×, above the typical ${lrCurrentRatio} ×, already with the running rotor leakage at standstill.`
+          : `Starting current ${startCurrent.toFixed(2)} ×, below the typical ${lrCurrentRatio} ×: the stator resistance and leakage (X1 from the ` +
+              `assumed breakdown torque) and the rotor resistance the starting torque needs limit it, with the standstill rotor leakage already ` +
+              `down to ${KX_MIN} × its running value.` +
+              (design === "D" ? " Design D rotors (small high-resistance bars near the surface) are known for a low starting current." : ""),
       );
     }
   } else {

@@ -84,3 +84,71 @@ export function logGrid(lo: number, hi: number, n: number): number[] {
   const b = Math.log10(hi);
   return Array.from({ length: n }, (_, i) => 10 ** (a + ((b - a) * i) / (n - 1)));
 }
+
+/**
+ * Root of a continuous f with f(lo) and f(hi) of opposite signs, by Brent's method: inverse quadratic or secant
+ * steps while they land well inside the bracket, bisection otherwise, so it never does worse than `bisect` and
+ * usually needs a handful of evaluations instead of about forty. An infinite value of f counts by its sign (the
+ * step falls back to bisection). Stops when the bracket is below tol·(1 + |x|).
+ */
+export function brentRoot(f: (x: number) => number, lo: number, hi: number, tol = 1e-12, maxIter = 200): number {
+  let a = lo;
+  let b = hi;
+  let fa = f(a);
+  let fb = f(b);
+  if (fa === 0) return a;
+  if (fb === 0) return b;
+  if (fa < 0 === fb < 0) return Math.abs(fa) < Math.abs(fb) ? a : b; // no sign change: the better end
+  let c = a;
+  let fc = fa;
+  let d = b - a;
+  let e = d;
+  for (let i = 0; i < maxIter; i++) {
+    if (fb < 0 === fc < 0) {
+      // Keep the root between b and c.
+      c = a;
+      fc = fa;
+      d = b - a;
+      e = d;
+    }
+    if (Math.abs(fc) < Math.abs(fb)) {
+      [a, b, c] = [b, c, b];
+      [fa, fb, fc] = [fb, fc, fb];
+    }
+    const tol1 = 0.5 * tol * (1 + Math.abs(b));
+    const m = 0.5 * (c - b);
+    if (Math.abs(m) <= tol1 || fb === 0) return b;
+    if (Math.abs(e) >= tol1 && Math.abs(fa) > Math.abs(fb) && Number.isFinite(fa) && Number.isFinite(fb) && Number.isFinite(fc)) {
+      // Interpolate: secant when a = c, inverse quadratic otherwise.
+      const s = fb / fa;
+      let p: number;
+      let q: number;
+      if (a === c) {
+        p = 2 * m * s;
+        q = 1 - s;
+      } else {
+        const qq = fa / fc;
+        const r = fb / fc;
+        p = s * (2 * m * qq * (qq - r) - (b - a) * (r - 1));
+        q = (qq - 1) * (r - 1) * (s - 1);
+      }
+      if (p > 0) q = -q;
+      else p = -p;
+      if (2 * p < Math.min(3 * m * q - Math.abs(tol1 * q), Math.abs(e * q))) {
+        e = d;
+        d = p / q;
+      } else {
+        d = m;
+        e = m;
+      }
+    } else {
+      d = m;
+      e = m;
+    }
+    a = b;
+    fa = fb;
+    b += Math.abs(d) > tol1 ? d : m > 0 ? tol1 : -tol1;
+    fb = f(b);
+  }
+  return b;
+}
