@@ -8,8 +8,10 @@ import {
   evaluateAtSlip,
   fromTests,
   keyPoints,
-  LOCKED_ROTOR_CURRENT_RATIO,
   MotorModelError,
+  nemaMaxLockedRotorCurrentA,
+  typicalBreakdownTorqueRatio,
+  typicalLockedRotorCurrentRatio,
   typicalLockedRotorTorqueRatio,
   type MotorModelInput,
   type NameplateForModel,
@@ -127,7 +129,8 @@ describe("estimateFromNameplate", () => {
         const startTorque = k.start.torqueNm / fullLoadTorque;
         const startCurrent = k.start.currentA / p.ratedCurrent;
         const typicalTorque = typicalLockedRotorTorqueRatio(p.designLetter, p.ratedKw) as number;
-        const typicalCurrent = LOCKED_ROTOR_CURRENT_RATIO[p.designLetter];
+        // 6.5 × (A 7.5, D 6.0), or the NEMA MG 1 ¶12.35.1 maximum for a 60 Hz B–D rating where that is less.
+        const typicalCurrent = typicalLockedRotorCurrentRatio(p.designLetter, { ...p, frequencyHz: p.ratedHz })?.ratio as number;
         // The typical starting torque, or the least a cage rotor gives (standstill R2 = running R2, fixed by the
         // rated slip) when that is already more, said in the notes.
         const torqueOk =
@@ -162,7 +165,8 @@ describe("estimateFromNameplate", () => {
     const e = estimateFromNameplate(p);
     within(e.ratedPoint.outputPowerW, 10000, 1e-6);
     within(e.ratedPoint.statorCurrentA, 18.33, 1e-6);
-    within(keyPoints(e.input).breakdown.torqueNm / (10000 / ((2 * Math.PI * 1425) / 60)), 2.5, 1e-3);
+    // The assumed breakdown for a 10 kW design A motor (2.5 × from 15 kW, rising towards small motors).
+    within(keyPoints(e.input).breakdown.torqueNm / (10000 / ((2 * Math.PI * 1425) / 60)), typicalBreakdownTorqueRatio("A", 10), 1e-3);
   });
 
   describe("design D at high slip and loss: the property test's shrunk case (1 kW, 2-pole, 690 V, 50 Hz, 4.48 % slip, 73.1 %)", () => {
@@ -199,6 +203,73 @@ describe("estimateFromNameplate", () => {
       const extreme = { ...e.input, params: { ...e.input.params, rotorLockedR2: r2, rotorLockedX2: 0 } };
       expect(evaluateAtSlip(extreme, 1).statorCurrentA / p.ratedCurrent).toBeLessThan(6);
     });
+  });
+});
+
+// Typical general-purpose (design B) nameplates, invented but with catalogue-like figures, from 2.2 to 150 kW,
+// 2 to 8 poles, 50 and 60 Hz, against the NEMA design table as reproduced in the EASA Engineering Handbook
+// ("General speed-torque characteristics, based on NEMA MG 10 Table 2-1"; domain sheet §1): design B locked-rotor
+// torque 70–275 %, breakdown torque 175–300 %, locked-rotor current 600–700 % (that column is on the handbook's page,
+// not in the domain sheet's copy). For 60 Hz motors NEMA MG 1 ¶12.35.1 also caps the locked-rotor current in amperes
+// (the handbook's table of maximum locked-rotor currents): there the estimate never exceeds that cap, and sits on it
+// where it is below 600 % of the rated current.
+describe("typical design B nameplates against the NEMA design table (EASA handbook after NEMA MG 10 Table 2-1; NEMA MG 1 ¶12.35.1)", () => {
+  const plates: Array<[string, NameplateForModel]> = [
+    ["2-pole 60 Hz 460 V 7.5 kW (10 hp)", { ratedKw: 7.5, ratedVoltage: 460, ratedCurrent: 11.95, ratedHz: 60, poles: 2, ratedRpm: 3530, efficiency: 89.5, powerFactor: 0.88 }],
+    ["2-pole 50 Hz 400 V 30 kW", { ratedKw: 30, ratedVoltage: 400, ratedCurrent: 52.8, ratedHz: 50, poles: 2, ratedRpm: 2950, efficiency: 93.3, powerFactor: 0.88 }],
+    ["4-pole 50 Hz 400 V 2.2 kW", { ratedKw: 2.2, ratedVoltage: 400, ratedCurrent: 4.64, ratedHz: 50, poles: 4, ratedRpm: 1435, efficiency: 86.7, powerFactor: 0.79 }],
+    ["4-pole 50 Hz 400 V 15 kW", { ratedKw: 15, ratedVoltage: 400, ratedCurrent: 28.0, ratedHz: 50, poles: 4, ratedRpm: 1465, efficiency: 92.1, powerFactor: 0.84 }],
+    ["4-pole 60 Hz 460 V 150 kW (200 hp)", { ratedKw: 150, ratedVoltage: 460, ratedCurrent: 225, ratedHz: 60, poles: 4, ratedRpm: 1788, efficiency: 96.2, powerFactor: 0.87 }],
+    ["6-pole 60 Hz 460 V 37 kW (50 hp)", { ratedKw: 37, ratedVoltage: 460, ratedCurrent: 59.5, ratedHz: 60, poles: 6, ratedRpm: 1185, efficiency: 94.1, powerFactor: 0.83 }],
+    ["6-pole 50 Hz 690 V 90 kW (delta)", { ratedKw: 90, ratedVoltage: 690, ratedCurrent: 95.5, ratedHz: 50, poles: 6, ratedRpm: 990, efficiency: 95.2, powerFactor: 0.83, connection: "delta" }],
+    ["8-pole 50 Hz 400 V 55 kW", { ratedKw: 55, ratedVoltage: 400, ratedCurrent: 105.6, ratedHz: 50, poles: 8, ratedRpm: 740, efficiency: 94.0, powerFactor: 0.8 }],
+    ["8-pole 60 Hz 460 V 18.5 kW (25 hp)", { ratedKw: 18.5, ratedVoltage: 460, ratedCurrent: 33.3, ratedHz: 60, poles: 8, ratedRpm: 885, efficiency: 91.7, powerFactor: 0.76 }],
+  ];
+
+  it.each(plates)("%s: locked-rotor torque 70–275 %, breakdown 175–300 %, locked-rotor current 600–700 % or the MG 1 cap", (_name, np) => {
+    const e = estimateFromNameplate({ ...np, designLetter: "B" });
+    const k = keyPoints(e.input);
+    const fullLoadTorque = (np.ratedKw * 1000) / ((2 * Math.PI * np.ratedRpm) / 60);
+    within(e.ratedPoint.outputPowerW, np.ratedKw * 1000, 1e-6);
+    within(e.ratedPoint.statorCurrentA, np.ratedCurrent, 1e-6);
+    const lrTorque = k.start.torqueNm / fullLoadTorque;
+    expect(lrTorque).toBeGreaterThanOrEqual(0.7);
+    expect(lrTorque).toBeLessThanOrEqual(2.75);
+    const breakdown = k.breakdown.torqueNm / fullLoadTorque;
+    expect(breakdown).toBeGreaterThanOrEqual(1.75);
+    expect(breakdown).toBeLessThanOrEqual(3.0);
+    expect(k.breakdown.beyondStandstill).toBe(false);
+    // The curve dips no lower than the rated torque between standstill and breakdown (the motor can accelerate
+    // its rated load).
+    expect(k.pullUp.torqueNm / fullLoadTorque).toBeGreaterThan(1);
+    const lrCurrentA = k.start.currentA;
+    const cap = np.ratedHz === 60 ? nemaMaxLockedRotorCurrentA(np.ratedKw, np.ratedVoltage) : null;
+    if (cap !== null) expect(lrCurrentA).toBeLessThanOrEqual(cap * (1 + 1e-6));
+    if (cap !== null && cap < 6 * np.ratedCurrent) within(lrCurrentA, cap, 1e-3);
+    else {
+      expect(lrCurrentA / np.ratedCurrent).toBeGreaterThanOrEqual(6);
+      expect(lrCurrentA / np.ratedCurrent).toBeLessThanOrEqual(7);
+    }
+  });
+
+  it("NEMA MG 1 ¶12.35.1 maxima: 81 A for 10 hp and 725 A for 100 hp at 460 V, 580 A for 100 hp at 575 V (handbook table); none outside ½–500 hp", () => {
+    within(nemaMaxLockedRotorCurrentA(10 * 0.7457, 460) as number, 81, 1e-9);
+    within(nemaMaxLockedRotorCurrentA(100 * 0.7457, 460) as number, 725, 1e-9);
+    within(nemaMaxLockedRotorCurrentA(100 * 0.7457, 575) as number, 580, 1e-9);
+    // Between ratings: linear in hp (our choice), e.g. 45 hp halfway between 40 hp (290 A) and 50 hp (362.5 A) at 460 V.
+    within(nemaMaxLockedRotorCurrentA(45 * 0.7457, 460) as number, 326.25, 1e-9);
+    expect(nemaMaxLockedRotorCurrentA(0.2, 460)).toBeNull();
+    expect(nemaMaxLockedRotorCurrentA(600 * 0.7457, 460)).toBeNull();
+  });
+
+  it("the assumed breakdown torque of A and B rises towards small motors (the table: higher values for lower ratings)", () => {
+    expect(typicalBreakdownTorqueRatio("B", 0.5)).toBe(3);
+    expect(typicalBreakdownTorqueRatio("B", 15)).toBe(2.25);
+    expect(typicalBreakdownTorqueRatio("B", 200)).toBe(2.25);
+    expect(typicalBreakdownTorqueRatio("A", 100)).toBe(2.5);
+    expect(typicalBreakdownTorqueRatio("C", 1)).toBe(2.1);
+    expect(typicalBreakdownTorqueRatio("D", 1)).toBe(2.75);
+    for (let kw = 1; kw < 15; kw *= 1.3) expect(typicalBreakdownTorqueRatio("B", kw * 1.3)).toBeLessThan(typicalBreakdownTorqueRatio("B", kw));
   });
 });
 

@@ -11,7 +11,9 @@ import {
   LOCKED_ROTOR_CURRENT_RATIO,
   LOSS_SHARE,
   STATOR_LEAKAGE_SHARE,
+  typicalBreakdownTorqueRatio,
   typicalEfficiency,
+  typicalLockedRotorCurrentRatio,
   typicalLockedRotorTorqueRatio,
 } from "./design.ts";
 import { brentRoot, goldenMax } from "./search.ts";
@@ -156,19 +158,22 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
   assumptions.push(`R1 = stator copper loss / (3·I²) = ${r1.toFixed(4)} Ω per phase.`);
 
   const share = STATOR_LEAKAGE_SHARE[design];
-  const breakdownRatio = BREAKDOWN_TORQUE_RATIO[design];
+  const breakdownRatio = typicalBreakdownTorqueRatio(design, np.ratedKw);
   const fullLoadTorque = pOut / ((2 * Math.PI * np.ratedRpm) / 60);
   assumptions.push(`X1 : X2 = ${share} : ${(1 - share).toFixed(1)} (design ${design} split of the standard test method).`);
   assumptions.push(
-    `Breakdown torque assumed ${breakdownRatio} × full-load torque (mid-range for design ${design} in the NEMA design table); it sets X1 + X2.`,
+    `Breakdown torque assumed ${breakdownRatio.toFixed(2)} × full-load torque (${
+      breakdownRatio === BREAKDOWN_TORQUE_RATIO[design] ? "mid-range" : "towards the top of the range, as for small motors,"
+    } for design ${design} in the NEMA design table); it sets X1 + X2.`,
   );
 
   // Deep-bar rotor for cage designs: standstill torque and current targets (typical values, from memory).
   const lrTorqueRatio = design === "wound" ? null : typicalLockedRotorTorqueRatio(design, np.ratedKw);
-  const lrCurrentRatio = design === "wound" ? null : LOCKED_ROTOR_CURRENT_RATIO[design];
+  const lrCurrentTarget = typicalLockedRotorCurrentRatio(design, { ratedKw: np.ratedKw, ratedVoltage: np.ratedVoltage, ratedCurrent: np.ratedCurrent, frequencyHz: f });
+  const lrCurrentRatio = lrCurrentTarget?.ratio ?? null;
   const deepBar = lrTorqueRatio !== null && lrCurrentRatio !== null;
 
-  // Starting guesses, then Gauss–Seidel passes of one-dimensional solves.
+  // Starting guesses, then passes of nested one-dimensional solves (below).
   let xLeak = zBase / 6;
   const sinPhi = Math.sqrt(1 - pf * pf);
   let xm = zBase / Math.max(0.1, sinPhi - iPhase * xLeak / vPhase);
@@ -331,10 +336,15 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
     const startTorque = start.inducedTorqueNm / fullLoadTorque;
     const startCurrent = start.statorCurrentA / np.ratedCurrent;
     assumptions.push(
-      `Starting torque assumed ${lrTorqueRatio} × full-load torque and starting current ${lrCurrentRatio} × rated current ` +
+      `Starting torque assumed ${lrTorqueRatio} × full-load torque and starting current ${+(lrCurrentRatio as number).toFixed(2)} × rated current ` +
         `(typical values for design ${design}, from memory; the NEMA design table gives locked-rotor torque ` +
         `${design === "C" ? "200–250 %" : design === "D" ? "275 %" : "70–275 % by size"} and locked-rotor current 600–700 %, ` +
-        `and NEMA MG 1 sets minimum torques and maximum currents by size). ` +
+        `and NEMA MG 1 sets minimum torques and maximum currents by size` +
+        (lrCurrentTarget?.nemaMaxA != null && lrCurrentTarget.ratio < LOCKED_ROTOR_CURRENT_RATIO[design as Exclude<DesignLetter, "wound">]
+          ? `; the typical ${LOCKED_ROTOR_CURRENT_RATIO[design as Exclude<DesignLetter, "wound">]} × would exceed its ${lrCurrentTarget.nemaMaxA.toFixed(0)} A ` +
+            `maximum for ${(np.ratedKw / 0.7457).toFixed(1)} hp at ${np.ratedVoltage} V (¶12.35.1), so that maximum is used`
+          : "") +
+        `). ` +
         `Model at standstill: ${startTorque.toFixed(2)} × torque, ${startCurrent.toFixed(2)} × current.`,
     );
     assumptions.push(
@@ -357,8 +367,8 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
     if (!lrCurrentMatched) {
       assumptions.push(
         kX === 1
-          ? `Starting current ${startCurrent.toFixed(2)} ×, above the typical ${lrCurrentRatio} ×, already with the running rotor leakage at standstill.`
-          : `Starting current ${startCurrent.toFixed(2)} ×, below the typical ${lrCurrentRatio} ×: the stator resistance and leakage (X1 from the ` +
+          ? `Starting current ${startCurrent.toFixed(2)} ×, above the typical ${+(lrCurrentRatio as number).toFixed(2)} ×, already with the running rotor leakage at standstill.`
+          : `Starting current ${startCurrent.toFixed(2)} ×, below the typical ${+(lrCurrentRatio as number).toFixed(2)} ×: the stator resistance and leakage (X1 from the ` +
               `assumed breakdown torque) and the rotor resistance the starting torque needs limit it, with the standstill rotor leakage already ` +
               `down to ${KX_MIN} × its running value.` +
               (design === "D" ? " Design D rotors (small high-resistance bars near the surface) are known for a low starting current." : ""),

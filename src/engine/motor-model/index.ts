@@ -30,6 +30,9 @@ export { loadFromSlip, checkOperatingPoint, CURRENT_MISMATCH_LIMIT, type ModelLo
 export {
   STATOR_LEAKAGE_SHARE,
   BREAKDOWN_TORQUE_RATIO,
+  typicalBreakdownTorqueRatio,
   LOCKED_ROTOR_CURRENT_RATIO,
+  nemaMaxLockedRotorCurrentA,
+  typicalLockedRotorCurrentRatio,
   typicalLockedRotorTorqueRatio,
 } from "./design.ts";
