@@ -48,14 +48,14 @@ function modelInput(body: unknown): { input: MotorModelInput; slip?: number; mea
     return { input: { ...b, params: b.params }, slip: b.slip, measuredCurrentA: b.measuredCurrentA, points: b.points };
   }
   const b = parse(flatEvaluateBody, body);
-  const { r1, x1, r2, x2, xm, rc } = b;
+  const { r1, x1, r2, x2, xm, rc, rotorLockedR2, rotorLockedX2 } = b;
   return {
     input: {
       lineVoltage: b.lineVoltage,
       frequencyHz: b.frequencyHz,
       poles: b.poles,
       connection: b.connection,
-      params: { r1, x1, r2, x2, xm, rc },
+      params: { r1, x1, r2, x2, xm, rc, rotorLockedR2, rotorLockedX2 },
       rotationalLossW: b.rotationalLossW,
     },
     slip: b.slip,

@@ -149,8 +149,9 @@ describe("estimateFromNameplate", () => {
           torqueOk &&
           currentOk &&
           startCurrent < 8 &&
-          // A–C: several times rated current; design D's high-resistance rotor can start on less (see below).
-          (p.designLetter === "D" || startCurrent > 4.5) &&
+          // A–C: several times rated current (unless the NEMA MG 1 maximum in amperes is less, as for a large
+          // rating with a small-motor efficiency); design D's high-resistance rotor can start on less (see below).
+          (p.designLetter === "D" || startCurrent > Math.min(4.5, typicalCurrent * (1 - 1e-3))) &&
           // D: at least the 275 % of the NEMA design table (EASA handbook, after NEMA MG 10 Table 2-1), and its
           // torque maximum near that (the table gives breakdown 275 % too: the peak sits towards standstill).
           (p.designLetter !== "D" || (startTorque >= 2.75 * (1 - 1e-6) && k.breakdown.torqueNm / k.start.torqueNm < 1.05))
