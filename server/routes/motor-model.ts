@@ -2,9 +2,10 @@
 // no-load / locked-rotor tests. Pure computation, no database. Mounted by the app at /api/motor-model
 // behind sign-in, so nothing here checks the user.
 //
-// POST /evaluate  body: { lineVoltage, frequencyHz, poles, connection, r1, x1, r2, x2, xm, rc?, rotationalLossW?,
-//                         slip?, measuredCurrentA?, points? }
-//                  The circuit constants may instead be nested: { ..., params: { r1, x1, r2, x2, xm, rc? } }.
+// POST /evaluate  body: { lineVoltage, frequencyHz, poles, connection, r1, x1, r2, x2, xm, rc?, rotorLockedR2?,
+//                         rotorLockedX2?, rotationalLossW?, slip?, measuredCurrentA?, points? }
+//                  The circuit constants may instead be nested: { ..., params: { r1, x1, r2, x2, xm, rc?, rotorLocked… } }
+//                  (the standstill R2, X2 of a deep-bar rotor, as a nameplate estimate returns them).
 //                  With slip: the operating point (+ flags). Without: { curves, start, pullUp, breakdown, thevenin }.
 // POST /estimate  body: nameplate { ratedKw, ratedVoltage, ratedCurrent, ratedHz?, poles, ratedRpm, efficiency?,
 //                         powerFactor?, designLetter?, connection? } → { input, sources, assumptions, ratedPoint, ... }
@@ -48,14 +49,14 @@ function modelInput(body: unknown): { input: MotorModelInput; slip?: number; mea
     return { input: { ...b, params: b.params }, slip: b.slip, measuredCurrentA: b.measuredCurrentA, points: b.points };
   }
   const b = parse(flatEvaluateBody, body);
-  const { r1, x1, r2, x2, xm, rc } = b;
+  const { r1, x1, r2, x2, xm, rc, rotorLockedR2, rotorLockedX2 } = b;
   return {
     input: {
       lineVoltage: b.lineVoltage,
       frequencyHz: b.frequencyHz,
       poles: b.poles,
       connection: b.connection,
-      params: { r1, x1, r2, x2, xm, rc },
+      params: { r1, x1, r2, x2, xm, rc, rotorLockedR2, rotorLockedX2 },
       rotationalLossW: b.rotationalLossW,
     },
     slip: b.slip,

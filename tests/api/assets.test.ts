@@ -243,6 +243,12 @@ describe("assets", () => {
     const model = await admin.get(`/api/assets/${id}/motor-model`);
     expect(model.status).toBe(200);
     expect(model.body).toMatchObject({ input: expect.any(Object), curves: expect.anything(), keyPoints: expect.any(Object), operatingPoints: [] });
+    // Estimated from the nameplate (design B assumed): a deep-bar rotor that starts at the typical 1.5 × torque and
+    // 6.5 × current (inside the NEMA design table's 70–275 % and 600–700 %), not a single cage's fraction of them.
+    const fullLoadTorque = 55000 / ((2 * Math.PI * 1480) / 60);
+    expect(model.body.keyPoints.start.torqueNm / fullLoadTorque).toBeCloseTo(1.5, 2);
+    expect(model.body.keyPoints.start.currentA / 98).toBeCloseTo(6.5, 2);
+    expect(model.body.sources.rotorLockedR2).toBe("nameplate-estimate");
   });
 
   it("lists with server-side filters, sort and paging; unknown sort column is a 400", async () => {

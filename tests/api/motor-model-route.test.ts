@@ -107,6 +107,31 @@ describe("POST /api/motor-model/estimate", () => {
     expect(b.breakdown.slip).toBeGreaterThan(0.01);
   });
 
+  it("gives a cage motor a deep-bar rotor that starts near the typical design B values, and /evaluate takes its circuit back unchanged", async () => {
+    const est = await request(app).post("/api/motor-model/estimate").send(plate);
+    const { params, ...ratings } = est.body.input;
+    expect(params.rotorLockedR2).toBeGreaterThan(params.r2);
+    expect(params.rotorLockedX2).toBeLessThan(params.x2);
+    const fullLoadTorque = 75000 / ((2 * Math.PI * 1485) / 60);
+    // 1.5 × torque and 6.5 × current: typical values inside the NEMA design table's 70–275 % and 600–700 % (EASA
+    // handbook after NEMA MG 10 Table 2-1); the estimate aims for them exactly.
+    expect(est.body.start.torqueNm / fullLoadTorque).toBeCloseTo(1.5, 3);
+    expect(est.body.start.currentA / 131).toBeCloseTo(6.5, 3);
+    const nested = await request(app).post("/api/motor-model/evaluate").send({ ...ratings, params });
+    expect(nested.status).toBe(200);
+    expect(nested.body.start).toEqual(est.body.start);
+    expect(nested.body.pullUp).toEqual(est.body.pullUp);
+    expect(nested.body.breakdown).toEqual(est.body.breakdown);
+    const flat = await request(app).post("/api/motor-model/evaluate").send({ ...ratings, ...params });
+    expect(flat.body.start).toEqual(est.body.start);
+  });
+
+  it("answers 400 for a standstill R2 of 0 or a negative standstill X2", async () => {
+    const res = await request(app).post("/api/motor-model/evaluate").send({ ...chapman, rotorLockedR2: 0, rotorLockedX2: -1 });
+    expect(res.status).toBe(400);
+    expect(Object.keys(res.body.fields).sort()).toEqual(["rotorLockedR2", "rotorLockedX2"]);
+  });
+
   it("answers 422 for a physically impossible nameplate", async () => {
     const res = await request(app).post("/api/motor-model/estimate").send({ ...plate, ratedRpm: 1510 });
     expect(res.status).toBe(422);

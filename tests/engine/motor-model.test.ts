@@ -19,6 +19,7 @@ import {
 } from "../../src/engine/motor-model/index.ts";
 // The standard speed formulas are the engine's shared ones; the motor model uses them.
 import { rpmFromSlip, slipFromRpm, syncRpm } from "../../src/engine/formulas.ts";
+import { bisect, brentRoot } from "../../src/engine/motor-model/search.ts";
 
 /** Chapman Ex. 7-5 inputs: 460 V, 25 hp, 60 Hz, 4-pole, Y; rotational losses 1100 W (core loss lumped in). */
 const chapman: MotorModelInput = {
@@ -299,6 +300,39 @@ describe("properties of the exact circuit (fast-check)", () => {
         const p = evaluateAtSlip(input, s);
         const balance = Math.abs(p.statorCopperLossW + p.coreLossW + p.airGapPowerW - p.inputPowerW) / p.inputPowerW;
         return balance < 1e-9 && p.efficiency >= 0 && p.efficiency < 1 && p.powerFactor > 0 && p.powerFactor <= 1;
+      }),
+    );
+  });
+});
+
+describe("root finding for the nameplate fit (Brent's method against bisection)", () => {
+  const counted = (f: (x: number) => number) => {
+    const g = (x: number) => {
+      g.calls++;
+      return f(x);
+    };
+    g.calls = 0;
+    return g;
+  };
+
+  it("finds the cube root of 2 to 1e-12 in a fraction of bisection's evaluations", () => {
+    const fb = counted((x) => x ** 3 - 2);
+    const fbi = counted((x) => x ** 3 - 2);
+    near(brentRoot(fb, 0, 2), Math.cbrt(2), 1e-12);
+    near(bisect(fbi, 0, 2), Math.cbrt(2), 1e-11);
+    expect(fb.calls).toBeLessThan(fbi.calls / 3);
+  });
+
+  it("treats an infinite value by its sign, and returns the better end when the ends do not bracket a root", () => {
+    near(brentRoot((x) => (x < 0.3 ? Infinity : 1 - x), 0, 2), 1, 1e-12);
+    expect(brentRoot((x) => x * x + 1, -1, 3)).toBe(-1);
+  });
+
+  it("agrees with bisection on random monotone functions (fast-check)", () => {
+    fc.assert(
+      fc.property(fc.double({ min: 0.1, max: 10, noNaN: true }), fc.double({ min: -5, max: 5, noNaN: true }), (a, r) => {
+        const f = (x: number) => Math.sinh(a * (x - r)) + 0.1 * (x - r);
+        return Math.abs(brentRoot(f, -6, 6) - r) < 1e-9 && Math.abs(bisect(f, -6, 6) - r) < 1e-9;
       }),
     );
   });

@@ -1,7 +1,8 @@
 // Torque-speed and performance curves of the exact circuit, and the points a motor's page shows:
-// starting (locked-rotor), pull-up and breakdown.
+// starting (locked-rotor), pull-up and breakdown. A deep-bar rotor (standstill R2/X2 given) is evaluated with
+// its slip-dependent R2(s), X2(s) at every sample, so the curves show its higher starting torque and current.
 
-import { evaluateAtSlip, torqueAtSlip } from "./circuit.ts";
+import { evaluateAtSlip, hasDeepBarRotor, torqueAtSlip } from "./circuit.ts";
 import { gridThenGoldenMax, logGrid } from "./search.ts";
 import { thevenin, type TheveninResult } from "./thevenin.ts";
 import type { MotorModelInput } from "./types.ts";
@@ -56,12 +57,17 @@ export interface KeyPoints {
   start: TorquePoint;
   /**
    * Minimum torque between standstill and breakdown. A single-cage circuit has a monotonic curve there,
-   * so this equals the starting torque; real motors can dip lower from space harmonics the circuit omits.
+   * so this equals the starting torque. A deep-bar rotor's torque can dip below its starting torque on the
+   * way up (its rotor resistance falls with speed), and then this is that minimum; real motors can dip lower
+   * still from space harmonics the circuit omits.
    */
   pullUp: TorquePoint;
-  /** Maximum torque found numerically on 0 < s ≤ 1 of the exact circuit (at s = 1 when s_max > 1). */
+  /**
+   * Maximum torque found numerically on 0 < s ≤ 1 of the exact circuit (at s = 1 when the curve still rises
+   * there: s_max > 1 for a single cage, or a deep-bar rotor whose starting torque is its largest).
+   */
   breakdown: TorquePoint & { beyondStandstill: boolean };
-  /** Closed-form cross-check. */
+  /** Closed-form cross-check (running-point rotor values for s_max and τ_max; see thevenin.ts). */
   thevenin: TheveninResult;
 }
 
@@ -79,13 +85,18 @@ export function keyPoints(input: MotorModelInput): KeyPoints {
   const sBreak = breakdownSlip(input);
   const start = pointAt(input, 1);
   // Pull-up: minimise torque on [s_break, 1] (maximise its negative).
-  const grid = Array.from({ length: 101 }, (_, i) => sBreak + ((1 - sBreak) * i) / 100);
-  const sPullUp = sBreak >= 1 ? 1 : gridThenGoldenMax((s) => -torqueAtSlip(input, s), grid);
+  // The last sample is exactly standstill (rounding must not step past s = 1).
+  const grid = Array.from({ length: 101 }, (_, i) => (i === 100 ? 1 : sBreak + ((1 - sBreak) * i) / 100));
+  const sPullUp = sBreak >= 1 ? 1 : Math.min(1, gridThenGoldenMax((s) => -torqueAtSlip(input, s), grid));
   const th = thevenin(input);
   return {
     start,
     pullUp: pointAt(input, sPullUp),
-    breakdown: { ...pointAt(input, sBreak), beyondStandstill: th.exact.sMax > 1 },
+    breakdown: {
+      ...pointAt(input, sBreak),
+      // Single cage: the closed form says it exactly. Deep bar: the numeric maximum sits at standstill.
+      beyondStandstill: hasDeepBarRotor(input.params) ? sBreak >= 1 - 1e-9 : th.exact.sMax > 1,
+    },
     thevenin: th,
   };
 }

@@ -1,11 +1,22 @@
 // A circuit estimated from the nameplate alone. The nameplate fixes rated output, current, slip and (given
 // or assumed) efficiency; the usual assumptions below fill in the rest, then the circuit is refined
 // numerically so it reproduces the rated point exactly. Every assumption is returned as a sentence for the screen.
+// Cage rotors (design A–D) get a deep-bar rotor (circuit.ts, `rotorAtSlip`) whose standstill R2 and X2 are fitted
+// to typical starting torque and current for the design letter; the running-point fits are not affected by it.
 
 import type { Nameplate } from "../types.ts";
-import { evaluateAtSlip } from "./circuit.ts";
-import { BREAKDOWN_TORQUE_RATIO, LOSS_SHARE, STATOR_LEAKAGE_SHARE, typicalEfficiency } from "./design.ts";
-import { bisect } from "./search.ts";
+import { DEEP_BAR_XI_AT_STANDSTILL, deepBarWeights, evaluateAtSlip, torqueAtSlip } from "./circuit.ts";
+import {
+  BREAKDOWN_TORQUE_RATIO,
+  LOCKED_ROTOR_CURRENT_RATIO,
+  LOSS_SHARE,
+  STATOR_LEAKAGE_SHARE,
+  typicalBreakdownTorqueRatio,
+  typicalEfficiency,
+  typicalLockedRotorCurrentRatio,
+  typicalLockedRotorTorqueRatio,
+} from "./design.ts";
+import { brentRoot, goldenMax } from "./search.ts";
 import { syncRpm } from "./speed.ts";
 import { thevenin } from "./thevenin.ts";
 import {
@@ -46,6 +57,18 @@ function ratedFrequency(np: NameplateForModel, assumptions: string[]): number {
   const f = candidates.reduce((a, b) => (syncRpm(a, np.poles) - np.ratedRpm <= syncRpm(b, np.poles) - np.ratedRpm ? a : b));
   assumptions.push(`Rated frequency not given: ${f} Hz assumed (its synchronous speed is nearest above the rated ${np.ratedRpm} rpm).`);
   return f;
+}
+
+/**
+ * Torque at the running-region peak: the maximum near the closed-form s_max (between half and twice it).
+ * For a single cage this is the breakdown torque; for a deep-bar rotor it is the breakdown torque whenever the
+ * starting torque is lower (design A–C), and the running peak of design D, whose starting torque equals it.
+ */
+function runningPeakTorque(input: MotorModelInput): number {
+  const sm = thevenin(input).exact.sMax;
+  const hi = Math.min(1, 2 * sm);
+  const lo = Math.min(sm / 2, hi / 2);
+  return torqueAtSlip(input, goldenMax((s) => torqueAtSlip(input, s), lo, hi, 1e-12));
 }
 
 function validate(np: NameplateForModel): void {
@@ -135,78 +158,160 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
   assumptions.push(`R1 = stator copper loss / (3·I²) = ${r1.toFixed(4)} Ω per phase.`);
 
   const share = STATOR_LEAKAGE_SHARE[design];
-  const breakdownRatio = BREAKDOWN_TORQUE_RATIO[design];
+  const breakdownRatio = typicalBreakdownTorqueRatio(design, np.ratedKw);
   const fullLoadTorque = pOut / ((2 * Math.PI * np.ratedRpm) / 60);
   assumptions.push(`X1 : X2 = ${share} : ${(1 - share).toFixed(1)} (design ${design} split of the standard test method).`);
   assumptions.push(
-    `Breakdown torque assumed ${breakdownRatio} × full-load torque (mid-range for design ${design} in the NEMA design table); it sets X1 + X2.`,
+    `Breakdown torque assumed ${breakdownRatio.toFixed(2)} × full-load torque (${
+      breakdownRatio === BREAKDOWN_TORQUE_RATIO[design] ? "mid-range" : "towards the top of the range, as for small motors,"
+    } for design ${design} in the NEMA design table); it sets X1 + X2.`,
   );
 
-  // Starting guesses, then Gauss–Seidel passes of one-dimensional solves.
+  // Deep-bar rotor for cage designs: standstill torque and current targets (typical values, from memory).
+  const lrTorqueRatio = design === "wound" ? null : typicalLockedRotorTorqueRatio(design, np.ratedKw);
+  const lrCurrentTarget = typicalLockedRotorCurrentRatio(design, { ratedKw: np.ratedKw, ratedVoltage: np.ratedVoltage, ratedCurrent: np.ratedCurrent, frequencyHz: f });
+  const lrCurrentRatio = lrCurrentTarget?.ratio ?? null;
+  const deepBar = lrTorqueRatio !== null && lrCurrentRatio !== null;
+
+  // Starting guesses, then passes of nested one-dimensional solves (below).
   let xLeak = zBase / 6;
   const sinPhi = Math.sqrt(1 - pf * pf);
   let xm = zBase / Math.max(0.1, sinPhi - iPhase * xLeak / vPhase);
   let rc = (3 * vPhase * vPhase) / Math.max(coreW, 1e-6);
   let r2 = sRated * zBase;
-  const build = (p: Partial<CircuitParams>): MotorModelInput => ({
-    lineVoltage: np.ratedVoltage,
-    frequencyHz: f,
-    poles: np.poles,
-    connection,
-    params: { r1, x1: share * xLeak, r2, x2: (1 - share) * xLeak, xm, rc: coreW > 0 ? rc : null, ...p },
-    rotationalLossW: rotationalW,
-  });
-  const split = (x: number) => ({ x1: share * x, x2: (1 - share) * x });
-  const logSolve = (g: (x: number) => number, lo: number, hi: number) => Math.exp(bisect((u) => g(Math.exp(u)), Math.log(lo), Math.log(hi)));
+  // Deep bar: standstill R2 and X2 as ratios of the running values, so they follow r2 and X1 + X2 as those are refit.
+  let kR = 1;
+  let kX = 1;
+  type Fit = { r2: number; xm: number; xLeak: number; rc: number; kR: number; kX: number };
+  const build = (p: Partial<Fit> = {}): MotorModelInput => {
+    const v = { r2, xm, xLeak, rc, kR, kX, ...p };
+    const x2 = (1 - share) * v.xLeak;
+    const params: CircuitParams = { r1, x1: share * v.xLeak, r2: v.r2, x2, xm: v.xm, rc: coreW > 0 ? v.rc : null };
+    if (deepBar) {
+      params.rotorLockedR2 = v.kR * v.r2;
+      params.rotorLockedX2 = v.kX * x2;
+    }
+    return { lineVoltage: np.ratedVoltage, frequencyHz: f, poles: np.poles, connection, params, rotationalLossW: rotationalW };
+  };
+  const logSolve = (g: (x: number) => number, lo: number, hi: number) => Math.exp(brentRoot((u) => g(Math.exp(u)), Math.log(lo), Math.log(hi)));
 
-  let currentMatched = true;
-  for (let pass = 0; pass < 200; pass++) {
-    const before = [r2, xm, xLeak, rc];
+  const lrTorque = (lrTorqueRatio ?? 0) * fullLoadTorque;
+  const lrCurrent = (lrCurrentRatio ?? 0) * np.ratedCurrent;
+  // Standstill leakage of a deep-bar or double-cage rotor is rarely below about a quarter of its running value.
+  const KX_MIN = 0.25;
 
-    // R2 so that output at rated slip equals rated output, on the stable (low-slip) side of the torque peak.
-    const th = thevenin(build({})).exact;
-    const r2Peak = sRated * Math.hypot(th.rth, th.xth + (1 - share) * xLeak);
-    const outErr = (x: number) => evaluateAtSlip(build({ r2: x }), sRated).outputPowerW - pOut;
-    if (outErr(r2Peak) < 0) {
+  // Each target is met by a nested one-dimensional solve (an inner solve inside the function the outer one
+  // brackets), never by alternating two solves: alternating R2 and Xm one after the other can circle for ever
+  // on high-slip nameplates (the two are strongly coupled there) and stop with the rated output several per cent off.
+
+  /** R2 that gives rated output at rated slip on the stable (low-slip) side of the torque peak; null when none can. */
+  const solveR2 = (p: Partial<Fit>): number | null => {
+    const th = thevenin(build(p)).exact;
+    const r2Peak = sRated * Math.hypot(th.rth, th.xth + (1 - share) * (p.xLeak ?? xLeak));
+    const outErr = (x: number) => evaluateAtSlip(build({ ...p, r2: x }), sRated).outputPowerW - pOut;
+    if (outErr(r2Peak) < 0) return null;
+    let hi = r2Peak * 2;
+    while (outErr(hi) > 0 && hi < r2Peak * 1e6) hi *= 2;
+    return logSolve(outErr, r2Peak, hi);
+  };
+  /**
+   * R2 and Xm together: Xm so the model draws rated current at rated slip (more Xm, less magnetising current),
+   * with R2 re-solved for rated output at every trial Xm. Too little Xm to reach rated output at all counts as
+   * too much current (the search moves to more Xm).
+   */
+  const solveRatedPoint = (): { r2: number; xm: number; currentMatched: boolean } => {
+    const curErr = (x: number) => {
+      const r = solveR2({ xm: x });
+      return r === null ? Infinity : evaluateAtSlip(build({ xm: x, r2: r }), sRated).statorCurrentA - np.ratedCurrent;
+    };
+    const xmLo = 0.05 * zBase;
+    const xmHi = 1e3 * zBase;
+    let x: number;
+    let matched = true;
+    if (curErr(xmHi) > 0) {
+      x = xmHi;
+      matched = false;
+    } else if (curErr(xmLo) < 0) {
+      x = xmLo;
+      matched = false;
+    } else x = logSolve(curErr, xmLo, xmHi);
+    const r = solveR2({ xm: x });
+    if (r === null) {
       throw new MotorModelError(
         `No rotor resistance gives ${np.ratedKw} kW at ${np.ratedRpm} rpm with these assumptions: check rated kW, voltage, current and rpm.`,
       );
     }
-    let hi = r2Peak * 2;
-    while (outErr(hi) > 0 && hi < r2Peak * 1e6) hi *= 2;
-    r2 = logSolve(outErr, r2Peak, hi);
+    return { r2: r, xm: x, currentMatched: matched };
+  };
 
-    // Xm so that the model draws rated current at rated slip (more Xm, less magnetising current).
-    const curErr = (x: number) => evaluateAtSlip(build({ xm: x }), sRated).statorCurrentA - np.ratedCurrent;
-    const xmLo = 0.05 * zBase;
-    const xmHi = 1e3 * zBase;
-    if (curErr(xmHi) > 0) {
-      xm = xmHi;
-      currentMatched = false;
-    } else if (curErr(xmLo) < 0) {
-      xm = xmLo;
-      currentMatched = false;
-    } else {
-      xm = logSolve(curErr, xmLo, xmHi);
-      currentMatched = true;
-    }
+  /** Starting torque with standstill R2 = k·R2 for a trial standstill X2 ratio; torque rises with k up to the standstill peak. */
+  const solveStartTorque = (kXTry: number): { kR: number; matched: boolean } => {
+    const th = thevenin(build({})).exact; // the stator side only: independent of the rotor values
+    const kRMax = Math.hypot(th.rth, th.xth + kXTry * (1 - share) * xLeak) / r2;
+    const tErr = (k: number) => evaluateAtSlip(build({ kR: k, kX: kXTry }), 1).inducedTorqueNm - lrTorque;
+    if (kRMax <= 1 || tErr(1) >= 0) return { kR: 1, matched: kRMax > 1 && Math.abs(tErr(1)) < 1e-6 * lrTorque };
+    if (tErr(kRMax) <= 0) return { kR: kRMax, matched: false };
+    return { kR: logSolve(tErr, 1, kRMax), matched: true };
+  };
+  /**
+   * Standstill X2 for the starting current, with standstill R2 re-solved for the starting torque at every trial
+   * (less reactance, more current, with the torque held). The torque has priority where both cannot be met.
+   */
+  const solveStart = (): { kR: number; kX: number; torqueMatched: boolean; currentMatched: boolean } => {
+    const iErr = (k: number) => evaluateAtSlip(build({ kR: solveStartTorque(k).kR, kX: k }), 1).statorCurrentA - lrCurrent;
+    let k: number;
+    let matched = true;
+    const atOne = iErr(1);
+    if (atOne >= 0) {
+      k = 1;
+      matched = Math.abs(atOne) < 1e-6 * lrCurrent;
+    } else if (iErr(KX_MIN) <= 0) {
+      k = KX_MIN;
+      matched = false;
+    } else k = logSolve(iErr, KX_MIN, 1);
+    const t = solveStartTorque(k);
+    return { kR: t.kR, kX: k, torqueMatched: t.matched, currentMatched: matched };
+  };
+
+  // X1 + X2 so that the breakdown torque is the assumed multiple of full-load torque; τ_max falls steadily as
+  // leakage reactance grows. Single cage: the exact Thevenin closed form is exact for this circuit. Deep bar: the
+  // running peak of the full circuit, found numerically (R2(s), X2(s) differ slightly from r2, x2 there).
+  const peak = (input: MotorModelInput) => (deepBar ? runningPeakTorque(input) : thevenin(input).exact.tauMax);
+  const breakdownTarget = breakdownRatio * fullLoadTorque;
+
+  // The targets interact only weakly (the breakdown hardly depends on R2, the rated point hardly on the standstill
+  // values), so passes over them converge quickly.
+  let currentMatched = true;
+  let lrTorqueMatched = true;
+  let lrCurrentMatched = true;
+  let converged = false;
+  for (let pass = 0; pass < 100 && !converged; pass++) {
+    const before = [r2, xm, xLeak, rc, kR, kX];
+    ({ r2, xm, currentMatched } = solveRatedPoint());
 
     // Rc so the core loss at the rated point is the assumed share.
-    if (coreW > 0) {
-      const modelCore = evaluateAtSlip(build({}), sRated).coreLossW;
-      rc *= modelCore / coreW;
-    }
+    if (coreW > 0) rc *= evaluateAtSlip(build({}), sRated).coreLossW / coreW;
 
-    // X1 + X2 so that the breakdown torque is the assumed multiple of full-load torque. The exact Thevenin
-    // closed form is exact for this circuit, and τ_max falls steadily as leakage reactance grows.
-    const bdErr = (x: number) => thevenin(build(split(x))).exact.tauMax - breakdownRatio * fullLoadTorque;
+    const bdErr = (x: number) => peak(build({ xLeak: x })) - breakdownTarget;
     const xLo = 1e-4 * zBase;
     const xHi = 2 * zBase;
     if (bdErr(xLo) > 0 && bdErr(xHi) < 0) xLeak = logSolve(bdErr, xLo, xHi);
 
-    const moved = [r2, xm, xLeak, rc].reduce((m, v, i) => Math.max(m, Math.abs(v - before[i]) / Math.abs(before[i])), 0);
-    if (moved < 1e-11) break;
+    if (deepBar) ({ kR, kX, torqueMatched: lrTorqueMatched, currentMatched: lrCurrentMatched } = solveStart());
+
+    const moved = [r2, xm, xLeak, rc, kR, kX].reduce((m, v, i) => Math.max(m, Math.abs(v - before[i]) / Math.abs(before[i])), 0);
+    converged = moved < 1e-10;
   }
+  // The rated point comes first: solve it once more for the final leakage and standstill values, then check it.
+  ({ r2, xm, currentMatched } = solveRatedPoint());
+  const check = evaluateAtSlip(build({}), sRated);
+  if (!(Math.abs(check.outputPowerW / pOut - 1) < 1e-6) || (currentMatched && !(Math.abs(check.statorCurrentA / np.ratedCurrent - 1) < 1e-6))) {
+    throw new MotorModelError(
+      `The estimate could not reproduce the rated point (model ${check.outputPowerW.toFixed(0)} W, ${check.statorCurrentA.toFixed(2)} A at the rated slip): ` +
+        "check rated kW, voltage, current, rpm and efficiency.",
+    );
+  }
+  const breakdownMatched = Math.abs(peak(build({})) / breakdownTarget - 1) < 1e-3;
 
   const input = build({});
   const ratedPoint = evaluateAtSlip(input, sRated);
@@ -214,20 +319,81 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
   assumptions.push(
     `Refined numerically: R2 solved so the model gives ${np.ratedKw} kW at the rated slip ${sRated.toFixed(4)} ` +
       `(${ratedPoint.outputPowerW.toFixed(0)} W, ${outErrPct >= 0 ? "+" : ""}${outErrPct.toFixed(3)} %), Xm so it draws the rated ` +
-      `${np.ratedCurrent} A (model ${ratedPoint.statorCurrentA.toFixed(1)} A), Rc for the assumed core loss and X1 + X2 for the assumed breakdown torque.`,
+      `${np.ratedCurrent} A (model ${ratedPoint.statorCurrentA.toFixed(1)} A), Rc for the assumed core loss and X1 + X2 for the assumed breakdown torque` +
+      (deepBar ? "; then the standstill R2 and X2 of the deep-bar rotor for the assumed starting torque and current." : "."),
   );
   if (!currentMatched) {
     assumptions.push("The rated current could not be matched within plausible magnetising reactance: the nameplate figures may disagree.");
   }
-  assumptions.push(
-    "Single-cage circuit with constant R2 (from the rated point): near standstill, deep-bar and double-cage rotors gain rotor " +
-      "resistance and lose leakage reactance, so their real starting torque and current are usually higher than shown; the running region is the reliable part.",
-  );
+  if (!breakdownMatched) {
+    assumptions.push(
+      `The assumed breakdown torque could not be reached with any leakage reactance: the model's is ${(peak(input) / fullLoadTorque).toFixed(2)} × full-load torque.`,
+    );
+  }
+  if (deepBar) {
+    const start = evaluateAtSlip(input, 1);
+    const p = input.params;
+    const startTorque = start.inducedTorqueNm / fullLoadTorque;
+    const startCurrent = start.statorCurrentA / np.ratedCurrent;
+    assumptions.push(
+      `Starting torque assumed ${lrTorqueRatio} × full-load torque and starting current ${+(lrCurrentRatio as number).toFixed(2)} × rated current ` +
+        `(typical values for design ${design}, from memory; the NEMA design table gives locked-rotor torque ` +
+        `${design === "C" ? "200–250 %" : design === "D" ? "275 %" : "70–275 % by size"} and locked-rotor current 600–700 %, ` +
+        `and NEMA MG 1 sets minimum torques and maximum currents by size` +
+        (lrCurrentTarget?.nemaMaxA != null && lrCurrentTarget.ratio < LOCKED_ROTOR_CURRENT_RATIO[design as Exclude<DesignLetter, "wound">]
+          ? `; the typical ${LOCKED_ROTOR_CURRENT_RATIO[design as Exclude<DesignLetter, "wound">]} × would exceed its ${lrCurrentTarget.nemaMaxA.toFixed(0)} A ` +
+            `maximum for ${(np.ratedKw / 0.7457).toFixed(1)} hp at ${np.ratedVoltage} V (¶12.35.1), so that maximum is used`
+          : "") +
+        `). ` +
+        `Model at standstill: ${startTorque.toFixed(2)} × torque, ${startCurrent.toFixed(2)} × current.`,
+    );
+    assumptions.push(
+      `Deep-bar rotor (engineering approximation of deep-bar and double-cage rotors): R2 and X2 vary with rotor frequency s·f, ` +
+        `R2(s) = R2₀ + (R2_LR − R2₀)·g_R(s), X2(s) = X2₀ − (X2₀ − X2_LR)·g_X(s), with g the normalised skin-effect factors of a ` +
+        `rectangular bar, ξ = ${DEEP_BAR_XI_AT_STANDSTILL}·√s (0 at synchronous speed, 1 at standstill, ` +
+        `${deepBarWeights(sRated).gR.toPrecision(2)} at the rated slip). ` +
+        `Running R2₀ = ${p.r2.toFixed(4)} Ω, X2₀ = ${p.x2.toFixed(4)} Ω; standstill R2_LR = ${(p.rotorLockedR2 as number).toFixed(4)} Ω ` +
+        `(${kR.toFixed(2)} ×), X2_LR = ${(p.rotorLockedX2 as number).toFixed(4)} Ω (${kX.toFixed(2)} ×), fitted to the starting torque and current. ` +
+        "The rated point and breakdown are barely affected; the shape of the curve between standstill and breakdown (pull-up) is approximate.",
+    );
+    if (!lrTorqueMatched) {
+      assumptions.push(
+        kR === 1
+          ? `Starting torque ${startTorque.toFixed(2)} ×, above the typical ${lrTorqueRatio} ×: the rated slip fixes the running rotor resistance, ` +
+              "and a cage rotor's resistance only rises towards standstill, so this is the least the model can start with at this current."
+          : `Starting torque ${startTorque.toFixed(2)} ×, below the typical ${lrTorqueRatio} ×: the most any rotor resistance gives at standstill with this stator.`,
+      );
+    }
+    if (!lrCurrentMatched) {
+      assumptions.push(
+        kX === 1
+          ? `Starting current ${startCurrent.toFixed(2)} ×, above the typical ${+(lrCurrentRatio as number).toFixed(2)} ×, already with the running rotor leakage at standstill.`
+          : `Starting current ${startCurrent.toFixed(2)} ×, below the typical ${+(lrCurrentRatio as number).toFixed(2)} ×: the stator resistance and leakage (X1 from the ` +
+              `assumed breakdown torque) and the rotor resistance the starting torque needs limit it, with the standstill rotor leakage already ` +
+              `down to ${KX_MIN} × its running value.` +
+              (design === "D" ? " Design D rotors (small high-resistance bars near the surface) are known for a low starting current." : ""),
+      );
+    }
+  } else {
+    assumptions.push(
+      "Single-cage circuit with constant R2 (from the rated point), as for a wound rotor with its slip rings shorted; " +
+        "starting with external rotor resistance gives more torque and less current than shown. The running region is the reliable part.",
+    );
+  }
 
   const est = "nameplate-estimate" as const;
   return {
     input,
-    sources: { r1: est, x1: est, r2: est, x2: est, xm: est, rc: est, rotationalLossW: est },
+    sources: {
+      r1: est,
+      x1: est,
+      r2: est,
+      x2: est,
+      xm: est,
+      rc: est,
+      ...(deepBar ? { rotorLockedR2: est, rotorLockedX2: est } : {}),
+      rotationalLossW: est,
+    },
     assumptions,
     ratedPoint,
   };

@@ -5,8 +5,13 @@
 //  - DC test: R1 (when given; otherwise R1 = R2 = R_LR/2 is assumed).
 // The standard method neglects the magnetising branch at standstill and the rotor at no load; `refine`
 // removes both approximations with the complex impedances (a few fixed-point passes).
+// The locked-rotor test measures R2 and X2 at the rotor frequency of the test (s = 1, so f_r = test frequency):
+// on a deep-bar rotor that is why the standard method asks for about 25 % of rated frequency, near the rotor
+// frequency at full load. The result is a single-cage circuit (no rotorLockedR2/X2): its R2 and X2 are the
+// running values; the notes say how far the test frequency sits from running conditions.
 
 import { complex, inv, sub, type Complex } from "./complex.ts";
+import { DEEP_BAR_XI_AT_STANDSTILL, deepBarWeights } from "./circuit.ts";
 import { STATOR_LEAKAGE_SHARE } from "./design.ts";
 import { MotorModelError, type CircuitParams, type Connection, type DesignLetter, type ParamSources } from "./types.ts";
 
@@ -104,6 +109,17 @@ export function fromTests(data: TestData): FromTestsResult {
   }
   if (!(xm > 0 && r2 > 0 && x2 > 0)) throw new MotorModelError("Test readings give a non-physical circuit: check the readings.");
 
+  const g = deepBarWeights(fRatio);
+  notes.push(
+    `The locked-rotor test measures R2 and X2 at its own rotor frequency, ${data.lockedRotor.f} Hz (s = 1); they are used as the ` +
+      `running values (constant R2, X2). On a deep-bar rotor (the model's skin-effect shape, ξ = ${DEEP_BAR_XI_AT_STANDSTILL} at ` +
+      `${fRated} Hz) that frequency lies ${(100 * g.gR).toFixed(0)} % of the way from running to standstill resistance` +
+      (fRatio >= 0.999
+        ? ": a test at rated frequency measures the standstill values, so R2 reads high and X2 low for running; a test at about 25 % of rated frequency is closer to running conditions."
+        : fRatio <= 0.3
+          ? ", much nearer running than standstill conditions (why the standard method tests at about 25 % of rated frequency)."
+          : ": a test at about 25 % of rated frequency would be closer to running conditions."),
+  );
   const rotationalLossW = data.noLoad.P - 3 * nl.i * nl.i * r1;
   notes.push(`Rotational loss (friction, windage and core, lumped) = ${rotationalLossW.toFixed(0)} W from the no-load test.`);
   const test = "no-load/locked-rotor test" as const;

@@ -13,10 +13,26 @@ export type {
   ParamSources,
 } from "./types.ts";
 export { MotorModelError } from "./types.ts";
-export { evaluateAtSlip, phaseVoltage } from "./circuit.ts";
+export {
+  evaluateAtSlip,
+  phaseVoltage,
+  rotorAtSlip,
+  hasDeepBarRotor,
+  deepBarWeights,
+  skinEffectFactors,
+  DEEP_BAR_XI_AT_STANDSTILL,
+} from "./circuit.ts";
 export { thevenin, theveninTorque, type TheveninForm, type TheveninResult } from "./thevenin.ts";
 export { curves, keyPoints, breakdownSlip, type CurveOptions, type KeyPoints, type MotorCurves, type TorquePoint } from "./curves.ts";
 export { estimateFromNameplate, type NameplateEstimate, type NameplateForModel } from "./estimate.ts";
 export { fromTests, type FromTestsResult, type TestData, type TestReading } from "./from-tests.ts";
 export { loadFromSlip, checkOperatingPoint, CURRENT_MISMATCH_LIMIT, type ModelLoad } from "./load.ts";
-export { STATOR_LEAKAGE_SHARE, BREAKDOWN_TORQUE_RATIO } from "./design.ts";
+export {
+  STATOR_LEAKAGE_SHARE,
+  BREAKDOWN_TORQUE_RATIO,
+  typicalBreakdownTorqueRatio,
+  LOCKED_ROTOR_CURRENT_RATIO,
+  nemaMaxLockedRotorCurrentA,
+  typicalLockedRotorCurrentRatio,
+  typicalLockedRotorTorqueRatio,
+} from "./design.ts";

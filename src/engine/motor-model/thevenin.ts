@@ -3,9 +3,13 @@
 //  - approximate (Chapman): V_th = V_φ·Xm/√(R1² + (X1+Xm)²), R_th ≈ R1·(Xm/(X1+Xm))², X_th ≈ X1; Rc ignored;
 //  - exact: Z_th = Z1·Z_shunt/(Z1 + Z_shunt), V_th = V_φ·Z_shunt/(Z1 + Z_shunt), with Rc when present.
 // The exact form gives the same torque as the full circuit, so it cross-checks the numeric search.
+// Deep-bar rotor (standstill values given): the Thevenin source is the stator side only, so it is unchanged;
+// the closed forms for s_max and τ_max use the running-point rotor values r2, x2 (breakdown sits at low rotor
+// frequency, where R2(s), X2(s) are within a few per cent of them), so they are a close estimate there, not an
+// identity; `theveninTorque` and `tauStart` use R2(s), X2(s) at their slip and stay exact at every slip.
 
 import { abs, add, complex, div, mul } from "./complex.ts";
-import { phaseVoltage, shuntImpedance } from "./circuit.ts";
+import { phaseVoltage, rotorAtSlip, shuntImpedance } from "./circuit.ts";
 import { rpmFromSlip, syncRadPerS } from "./speed.ts";
 import type { MotorModelInput } from "./types.ts";
 
@@ -16,12 +20,15 @@ export interface TheveninForm {
   vth: number;
   rth: number;
   xth: number;
-  /** Slip of maximum torque, R2/√(R_th² + (X_th + X2)²). May exceed 1 for a high-resistance rotor. */
+  /**
+   * Slip of maximum torque, R2/√(R_th² + (X_th + X2)²), with the running-point R2, X2. May exceed 1 for a
+   * high-resistance rotor.
+   */
   sMax: number;
   rpmAtMax: number;
-  /** Breakdown torque 3·V_th² / (2ω_s·[R_th + √(R_th² + (X_th + X2)²)]), N·m. */
+  /** Breakdown torque 3·V_th² / (2ω_s·[R_th + √(R_th² + (X_th + X2)²)]), N·m, running-point X2. */
   tauMax: number;
-  /** Torque at standstill (s = 1) from the same form, N·m. */
+  /** Torque at standstill (s = 1) from the same form, N·m, with the standstill R2, X2 of a deep-bar rotor. */
   tauStart: number;
 }
 
@@ -30,9 +37,12 @@ export interface TheveninResult {
   exact: TheveninForm;
 }
 
-/** Torque of the Thevenin form at slip s: 3·V_th²·(R2/s) / (ω_s·[(R_th + R2/s)² + (X_th + X2)²]). */
+/**
+ * Torque of the Thevenin form at slip s: 3·V_th²·(R2/s) / (ω_s·[(R_th + R2/s)² + (X_th + X2)²]), with the
+ * rotor values at that slip (constant for a single-cage circuit).
+ */
 export function theveninTorque(input: MotorModelInput, th: Pick<TheveninForm, "vth" | "rth" | "xth">, slip: number): number {
-  const { r2, x2 } = input.params;
+  const { r2, x2 } = rotorAtSlip(input.params, slip);
   const omegaSync = syncRadPerS(input.frequencyHz, input.poles);
   const rr = r2 / slip;
   return (3 * th.vth ** 2 * rr) / (omegaSync * ((th.rth + rr) ** 2 + (th.xth + x2) ** 2));

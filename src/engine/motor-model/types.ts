@@ -10,6 +10,14 @@ export interface CircuitParams {
   xm: number;
   /** Core-loss resistance in parallel with Xm. Absent or null: core loss is lumped into the rotational loss. */
   rc?: number | null;
+  /**
+   * Deep-bar (skin-effect) rotor: rotor resistance at standstill (rotor frequency = supply frequency), Ω.
+   * With it, `r2` is the running value (rotor frequency → 0) and R2 varies with slip between the two
+   * (see `rotorAtSlip` in circuit.ts). Absent or null: R2 is constant at `r2`, the classical single-cage circuit.
+   */
+  rotorLockedR2?: number | null;
+  /** Deep-bar rotor: rotor leakage reactance at standstill, Ω. With it, `x2` is the running value. Absent or null: X2 constant. */
+  rotorLockedX2?: number | null;
 }
 
 export type Connection = "star" | "delta";

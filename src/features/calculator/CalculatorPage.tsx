@@ -19,6 +19,8 @@ const FIELDS: { name: NumField; label: ReactNode; unit: string; hint?: string; o
   { name: "x2", label: <>Rotor leakage X<sub>2</sub></>, unit: "Ω", hint: "referred to the stator" },
   { name: "xm", label: <>Magnetising X<sub>m</sub></>, unit: "Ω" },
   { name: "rc", label: <>Core-loss R<sub>c</sub></>, unit: "Ω", optional: true, hint: "empty: core loss is in the rotational losses" },
+  { name: "rotorLockedR2", label: <>R<sub>2</sub> at standstill</>, unit: "Ω", optional: true, hint: "deep-bar rotor; empty: R2 constant" },
+  { name: "rotorLockedX2", label: <>X<sub>2</sub> at standstill</>, unit: "Ω", optional: true, hint: "deep-bar rotor; empty: X2 constant" },
   { name: "rotationalLossW", label: "Rotational losses", unit: "W", optional: true, hint: "friction, windage (and core)" },
   { name: "slip", label: "Slip", unit: "", optional: true, hint: "per unit, e.g. 0.022; empty: curves only" },
 ];
@@ -130,7 +132,7 @@ function Results({ r }: { r: CalculatorResult }) {
         <div className="grid gap-x-8 sm:grid-cols-2 lg:grid-cols-3">
           <Out label="Starting torque" v={c.start.torqueNm} unit="N·m" d={1} />
           <Out label="Starting current" v={c.start.currentA} unit="A" d={1} />
-          <Out label="Pull-up torque" v={c.pullUp.torqueNm} unit="N·m" d={1} hint={Math.abs(c.pullUp.rpm - c.start.rpm) < 1 ? "a single-cage circuit: equals the start" : `at ${c.pullUp.rpm.toFixed(0)} rpm`} />
+          <Out label="Pull-up torque" v={c.pullUp.torqueNm} unit="N·m" d={1} hint={Math.abs(c.pullUp.rpm - c.start.rpm) < 1 ? "no dip on the way up: equals the start" : `at ${c.pullUp.rpm.toFixed(0)} rpm`} />
           <Out label="Breakdown torque" v={c.breakdown.torqueNm} unit="N·m" d={1} hint={c.breakdown.beyondStandstill ? "maximum lies beyond standstill (s > 1)" : undefined} />
           <Out label="Breakdown slip" v={c.breakdown.slip} unit="" d={4} hint={`${c.breakdown.rpm.toFixed(0)} rpm`} />
           <Out label="Synchronous speed" v={sync} unit="rpm" d={0} />

@@ -24,6 +24,9 @@ export const circuitFields = {
   x2: nonNegative("X2", "Ω"),
   xm: positive("Xm", "Ω"),
   rc: positive("Rc", "Ω").nullable().optional(),
+  /** Rotor resistance and reactance at standstill, for a cage rotor whose bars crowd current when starting. */
+  rotorLockedR2: positive("R2 at standstill", "Ω").nullable().optional(),
+  rotorLockedX2: nonNegative("X2 at standstill", "Ω").nullable().optional(),
 };
 
 export const evaluateFields = {

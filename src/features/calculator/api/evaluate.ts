@@ -21,6 +21,8 @@ export const calculatorSchema = z.object({
   x2: numberInput(rules.x2),
   xm: numberInput(rules.xm),
   rc: numberInput(rules.rc),
+  rotorLockedR2: numberInput(rules.rotorLockedR2),
+  rotorLockedX2: numberInput(rules.rotorLockedX2),
   rotationalLossW: numberInput(rules.rotationalLossW),
   slip: numberInput(rules.slip),
 });
@@ -41,6 +43,8 @@ export const EXAMPLE: CalculatorValues = {
   x2: "0.464",
   xm: "26.3",
   rc: "",
+  rotorLockedR2: "",
+  rotorLockedX2: "",
   rotationalLossW: "1100",
   slip: "0.022",
 };
@@ -65,7 +69,7 @@ export function useEvaluate() {
   return useMutation({
     mutationFn: async (input: CalculatorInput): Promise<CalculatorResult> => {
       const { slip, ...rest } = input;
-      const body = { ...rest, rc: rest.rc ?? undefined, points: 200 };
+      const body = { ...rest, rc: rest.rc ?? undefined, rotorLockedR2: rest.rotorLockedR2 ?? undefined, rotorLockedX2: rest.rotorLockedX2 ?? undefined, points: 200 };
       const [curves, point] = await Promise.all([
         apiPost<CurvesResult>("/motor-model/evaluate", body),
         slip === undefined ? Promise.resolve(null) : apiPost<PointResult>("/motor-model/evaluate", { ...body, slip }),

@@ -15,7 +15,7 @@ export function keyPointMarks(k: MotorModelResponse["keyPoints"], y: "torqueNm" 
     { x: k.start.rpm, y: k.start[y], color: KEY, shape: "ring", label: `start ${k.start[y].toFixed(digits)} ${unit}` },
     { x: k.breakdown.rpm, y: k.breakdown[y], color: KEY, shape: "ring", label: `breakdown ${k.breakdown[y].toFixed(digits)} ${unit}` },
   ];
-  // A single-cage circuit's pull-up equals the start point; draw it only where it differs.
+  // Without a dip on the way up (always for a single cage) the pull-up is the start point; draw it only where it differs.
   if (Math.abs(k.pullUp.rpm - k.start.rpm) > 1) pts.push({ x: k.pullUp.rpm, y: k.pullUp[y], color: KEY, shape: "ring", label: `pull-up ${k.pullUp[y].toFixed(digits)} ${unit}` });
   return pts;
 }
