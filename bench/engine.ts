@@ -181,4 +181,31 @@ export function targetCase(): number {
   return median(t);
 }
 
+/**
+ * The bearing search's share (src/engine/bearings.ts): 3 current phases + 2 accelerometers × 10 kHz × 20 s on a
+ * 2-pole motor (its 3× BPFI lines near 800 Hz need a wider band than the 400 Hz low band), analysed with and without
+ * two bearings on the nameplate; median of 7 each.
+ */
+export function bearingCase(): { withMs: number; withoutMs: number } {
+  const opts = { poles: 2, supplyHz: 50, slip: 0.012, durationS: 20, sampleRate: 10000, phases: 3 as const, seed: 3 };
+  const a = synthCapture({ ...opts, vibration: { axis: "H" } });
+  const b = synthCapture({ ...opts, phases: 0, seed: 4, vibration: { axis: "V" } });
+  a.capture.channels.push(...b.capture.channels);
+  const bearings = [
+    { position: "DE" as const, rollingElements: 8, elementDiameterMm: 25.4, pitchDiameterMm: 110 },
+    { position: "NDE" as const, rollingElements: 10, elementDiameterMm: 16.669, pitchDiameterMm: 92.5 },
+  ];
+  const time = (np: typeof a.nameplate) => {
+    analyzeCapture(a.capture, np);
+    const t: number[] = [];
+    for (let i = 0; i < 7; i++) {
+      const t0 = performance.now();
+      analyzeCapture(a.capture, np);
+      t.push(performance.now() - t0);
+    }
+    return median(t);
+  };
+  return { withoutMs: time(a.nameplate), withMs: time({ ...a.nameplate, bearings }) };
+}
+
 if (process.argv[2] === "--child") childMain(Number(process.argv[3]), Number(process.argv[4]));

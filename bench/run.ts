@@ -4,7 +4,7 @@
 import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { dirname, join } from "node:path";
-import { benchCapture, measurePeakMemory, targetCase, timeAnalysis, timeFftJs, timeNumpy } from "./engine.ts";
+import { bearingCase, benchCapture, measurePeakMemory, targetCase, timeAnalysis, timeFftJs, timeNumpy } from "./engine.ts";
 import { realFft, nextPow2 } from "../src/engine/fft.ts";
 
 const here = dirname(fileURLToPath(import.meta.url));
@@ -66,6 +66,9 @@ async function main(): Promise<void> {
 
   console.log("\n== Target: 3 channels × 10 kHz × 20 s (600 000 samples), whole analysis, median of 7 (target ≤ 150 ms) ==");
   console.log(`analysis ${targetCase().toFixed(1)} ms`);
+  const bc = bearingCase();
+  console.log("\n== Bearings: 3 current + 2 vibration channels × 10 kHz × 20 s, 2-pole, two bearings, median of 7 ==");
+  console.log(`analysis without bearings ${bc.withoutMs.toFixed(1)} ms, with ${bc.withMs.toFixed(1)} ms`);
 
   const parseBench = join(here, "parse.ts");
   if (existsSync(parseBench)) {

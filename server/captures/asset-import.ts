@@ -20,8 +20,47 @@ const HEADERS: Record<string, string> = {
   designletter: "designLetter", efficiencyclass: "efficiencyClass", efficiencypct: "efficiencyPct", efficiency: "efficiencyPct",
   powerfactor: "powerFactor", pf: "powerFactor", connection: "connection", drivefed: "driveFed", vfd: "driveFed",
   machinegroup: "machineGroup", support: "support",
+  ...bearingHeaders("de", ["de", "drivend", "driveend"]),
+  ...bearingHeaders("nde", ["nde", "nondrivend", "nondriveend"]),
 };
-const NUMERIC = new Set(["ratedKw", "ratedVoltage", "ratedCurrent", "ratedHz", "ratedRpm", "poles", "rotorBars", "statorSlots", "efficiencyPct", "powerFactor", "machineGroup"]);
+
+/**
+ * Bearing columns, one set per end, e.g. "DE bearing", "DE elements", "DE element diameter mm", "DE pitch diameter mm",
+ * "DE contact angle deg" (or "Non-drive end bearing", …). Headers are compared without case, so d and D are spelled
+ * out rather than left to their case.
+ */
+function bearingHeaders(end: "de" | "nde", prefixes: string[]): Record<string, string> {
+  const names: Record<string, string[]> = {
+    designation: ["bearing", "bearingdesignation", "designation"],
+    rollingElements: ["elements", "rollingelements", "nb", "balls", "bearingelements"],
+    elementDiameterMm: ["elementdiameter", "elementdiametermm", "balldiameter", "balldiametermm", "rollingelementdiametermm"],
+    pitchDiameterMm: ["pitchdiameter", "pitchdiametermm", "bearingpitchdiametermm"],
+    contactAngleDeg: ["contactangle", "contactangledeg", "contactangledegrees"],
+  };
+  const out: Record<string, string> = {};
+  for (const prefix of prefixes) for (const [field, spellings] of Object.entries(names)) for (const n of spellings) out[`${prefix}${n}`] = `bearings.${end}.${field}`;
+  return out;
+}
+const NUMERIC = new Set([
+  "ratedKw", "ratedVoltage", "ratedCurrent", "ratedHz", "ratedRpm", "poles", "rotorBars", "statorSlots", "efficiencyPct", "powerFactor", "machineGroup",
+  ...["de", "nde"].flatMap((e) => ["rollingElements", "elementDiameterMm", "pitchDiameterMm", "contactAngleDeg"].map((f) => `bearings.${e}.${f}`)),
+]);
+
+/**
+ * "bearings.de.pitchDiameterMm" cells → { bearings: { de: { pitchDiameterMm } } }. An end whose cells are all empty on
+ * a row is left out (kept as stored); an end with any cell given replaces the stored one (see PATCH /api/assets/:id).
+ */
+function nestBearings(rec: Record<string, unknown>): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  const bearings: Record<string, Record<string, unknown>> = {};
+  for (const [k, v] of Object.entries(rec)) {
+    const m = /^bearings\.(de|nde)\.(\w+)$/.exec(k);
+    if (!m) out[k] = v;
+    else if (v !== undefined) (bearings[m[1]] ??= {})[m[2]] = v;
+  }
+  if (Object.keys(bearings).length) out.bearings = bearings;
+  return out;
+}
 const BOOLEAN = new Set(["driveFed"]);
 
 /** RFC 4180-ish: separators "," or ";", double-quoted cells with "" escapes, CRLF or LF. Lines are 1-based. */
@@ -101,10 +140,11 @@ export async function importAssets(db: Knex, csv: string): Promise<ImportReport>
       report.errors.push({ line: row.line, message: `The row has ${row.cells.length} cells, the header ${header.cells.length}.` });
       continue;
     }
-    const rec: Record<string, unknown> = {};
+    const cells: Record<string, unknown> = {};
     fields.forEach((f, i) => {
-      if (f) rec[f] = cellValue(f, row.cells[i] ?? "");
+      if (f) cells[f] = cellValue(f, row.cells[i] ?? "");
     });
+    const rec = nestBearings(cells);
     const tag = String(rec.tag ?? "");
     if (!tag) {
       report.errors.push({ line: row.line, message: "The tag is empty." });

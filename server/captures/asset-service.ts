@@ -4,6 +4,7 @@ import { z } from "zod";
 import type { Knex } from "knex";
 import { badRequest } from "../errors.ts";
 import { assetAreaId } from "../../src/shared/schemas/assets.ts";
+import { bearingsBody, type BearingsBody } from "../../src/shared/schemas/bearings.ts";
 
 export const DRIVEN_EQUIPMENT = ["pump", "fan", "compressor", "conveyor", "mixer", "crusher", "blower", "mill", "other"] as const;
 
@@ -34,6 +35,8 @@ export const assetFields = {
   driveFed: z.boolean().default(false),
   machineGroup: z.union([z.literal(1), z.literal(2)], { message: "1 (large) or 2 (medium)" }).default(2),
   support: z.enum(["rigid", "flexible"], { message: "rigid or flexible" }).default("rigid"),
+  /** Rolling bearings { de, nde } (src/shared/schemas/bearings.ts); versioned with the nameplate. */
+  bearings: bearingsBody.nullable().optional(),
 };
 
 export const createAssetSchema = z.object(assetFields).superRefine(checkSpeed);
@@ -66,17 +69,43 @@ export const NAMEPLATE_FIELDS = [
 export function toRow(input: Partial<AssetInput>): Record<string, unknown> {
   const row: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(input)) if (v !== undefined && COLUMN[k]) row[COLUMN[k]] = v;
+  if (input.bearings !== undefined) Object.assign(row, bearingColumns(input.bearings));
   return row;
 }
 
-/** Which nameplate fields differ between a stored row and an update. */
+export const BEARING_ENDS = ["de", "nde"] as const;
+const BEARING_COLUMN = { designation: "designation", rollingElements: "elements", elementDiameterMm: "element_mm", pitchDiameterMm: "pitch_mm", contactAngleDeg: "contact_deg" } as const;
+
+/** Columns of the bearings in an update: an end left out is kept, null clears it, an object replaces it whole. */
+export function bearingColumns(bearings: BearingsBody | null): Record<string, unknown> {
+  const row: Record<string, unknown> = {};
+  for (const end of BEARING_ENDS) {
+    const b = bearings === null ? null : bearings[end];
+    if (b === undefined) continue;
+    for (const [field, col] of Object.entries(BEARING_COLUMN)) row[`bearing_${end}_${col}`] = b ? (b[field as keyof typeof BEARING_COLUMN] ?? null) : null;
+  }
+  return row;
+}
+
+/** One end's bearing as the API answers it, or null when nothing is stored for it. */
+export function bearingOut(r: Record<string, any>, end: (typeof BEARING_ENDS)[number]) {
+  const out = Object.fromEntries(Object.entries(BEARING_COLUMN).map(([field, col]) => [field, r[`bearing_${end}_${col}`] ?? null])) as Record<keyof typeof BEARING_COLUMN, any>;
+  return Object.values(out).every((v) => v === null) ? null : out;
+}
+
+/** Which nameplate fields differ between a stored row and an update ("bearings.de" / "bearings.nde" for the bearings). */
 export function nameplateChanges(row: Record<string, unknown>, input: Partial<AssetInput>): string[] {
-  return NAMEPLATE_FIELDS.filter((f) => {
+  const changed: string[] = NAMEPLATE_FIELDS.filter((f) => {
     const v = input[f];
     if (v === undefined) return false;
     const old = row[COLUMN[f]];
     return (old ?? null) !== (v ?? null);
   });
+  if (input.bearings !== undefined) {
+    const cols = bearingColumns(input.bearings);
+    for (const end of BEARING_ENDS) if (Object.keys(cols).some((c) => c.startsWith(`bearing_${end}_`) && (row[c] ?? null) !== cols[c])) changed.push(`bearings.${end}`);
+  }
+  return changed;
 }
 
 /** The list/detail query: motor, area, site, its latest current analysis and open findings. */
@@ -149,6 +178,7 @@ export function assetOut(r: Record<string, any>) {
     driveFed: r.drive_fed,
     machineGroup: r.machine_group,
     support: r.support,
+    bearings: { de: bearingOut(r, "de"), nde: bearingOut(r, "nde") },
     nameplateVersion: r.nameplate_version,
     latest: r.l_analysis_id
       ? {

@@ -1,5 +1,5 @@
 // Small adapters between the engine's objects and what the database and the API store.
-import type { AnalysisResult, Capture, Nameplate } from "../../src/engine/types.ts";
+import type { AnalysisResult, BearingGeometry, Capture, Nameplate } from "../../src/engine/types.ts";
 import type { CaptureMeta } from "./ingest.ts";
 
 /** One channel's full-range display spectrum, encoded for the blob store (server/captures/spectrum-store.ts). */
@@ -33,9 +33,31 @@ export function toPlainJson(value: unknown): unknown {
   );
 }
 
-/** The engine's nameplate from an assets row. */
+/** The bearings of an assets row that have the geometry the defect frequencies need (Nb, d and D). */
+export function bearingsOf(asset: Record<string, any>): BearingGeometry[] {
+  const out: BearingGeometry[] = [];
+  for (const end of ["de", "nde"] as const) {
+    const nb = asset[`bearing_${end}_elements`];
+    const d = asset[`bearing_${end}_element_mm`];
+    const D = asset[`bearing_${end}_pitch_mm`];
+    if (nb === null || nb === undefined || d === null || d === undefined || D === null || D === undefined) continue;
+    const designation = asset[`bearing_${end}_designation`];
+    out.push({
+      position: end === "de" ? "DE" : "NDE",
+      ...(designation ? { designation: String(designation) } : {}),
+      rollingElements: Number(nb),
+      elementDiameterMm: Number(d),
+      pitchDiameterMm: Number(D),
+      contactAngleDeg: Number(asset[`bearing_${end}_contact_deg`] ?? 0),
+    });
+  }
+  return out;
+}
+
+/** The engine's nameplate from an assets row (with its bearings, when any has its geometry). */
 export function nameplateOf(asset: Record<string, any>): Nameplate {
   const opt = (v: unknown) => (v === null || v === undefined ? undefined : Number(v));
+  const bearings = bearingsOf(asset);
   return {
     poles: Number(asset.poles),
     ratedRpm: Number(asset.rated_rpm),
@@ -48,5 +70,6 @@ export function nameplateOf(asset: Record<string, any>): Nameplate {
     machineGroup: asset.machine_group === 1 ? 1 : 2,
     support: asset.support === "flexible" ? "flexible" : "rigid",
     driveFed: !!asset.drive_fed,
+    ...(bearings.length ? { bearings } : {}),
   };
 }

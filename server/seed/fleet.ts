@@ -47,7 +47,22 @@ export function assetRow(m: ScenarioMotor, areaId: number) {
     drive_fed: !!m.driveFed,
     machine_group: m.machineGroup,
     support: m.support,
+    ...bearingColumns(m),
   };
+}
+
+/** The bearing columns of a scenario motor (null where no bearing is on record). */
+function bearingColumns(m: ScenarioMotor): Record<string, string | number | null> {
+  const row: Record<string, string | number | null> = {};
+  for (const end of ["de", "nde"] as const) {
+    const b = m.bearings?.[end];
+    row[`bearing_${end}_designation`] = b?.designation ?? null;
+    row[`bearing_${end}_elements`] = b?.rollingElements ?? null;
+    row[`bearing_${end}_element_mm`] = b?.elementDiameterMm ?? null;
+    row[`bearing_${end}_pitch_mm`] = b?.pitchDiameterMm ?? null;
+    row[`bearing_${end}_contact_deg`] = b?.contactAngleDeg ?? null;
+  }
+  return row;
 }
 
 export const SCENARIO_MOTORS: ScenarioMotor[] = SCENARIO.flatMap((s) => s.motors);

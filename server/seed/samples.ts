@@ -117,7 +117,7 @@ export const SAMPLE_FILES: SampleFile[] = [
     file: "vibration-only.csv",
     tag: "TWT-HLP-P01",
     title: "Vibration only (one accelerometer)",
-    story: "Drive-end horizontal acceleration in m/s², no current. The supply comes from the 2× line-frequency line, speed and slip from the 1× line and its pole-pass sidebands, and the velocity r.m.s. gives the ISO 20816-3 zone (B). No rotor grade without current.",
+    story: "Drive-end horizontal acceleration in m/s², no current. The supply comes from the 2× line-frequency line, speed and slip from the 1× line and its pole-pass sidebands, and the velocity r.m.s. gives the ISO 20816-3 zone (B). No rotor grade without current. The motor's bearings are on record (drive end 6319 C3, non-drive end 6316 C3), so the vibration spectrum also carries the bearing defect markers (key d) at the frequencies expected at the measured speed; no bearing line stands out in this file, each is reported not found.",
     format: "csv",
     synth: recipe("TWT-HLP-P01", {
       seed: 106,

@@ -29,6 +29,17 @@ export interface ScenarioMotor {
   /** Typical running load, % of rated. */
   typicalLoadPct: number;
   vibration?: boolean;
+  /** Rolling bearings on record (drive end, non-drive end). */
+  bearings?: { de?: ScenarioBearing; nde?: ScenarioBearing };
+}
+
+/** A bearing as the motor register holds it: designation, Nb, d and D in mm, contact angle in degrees. */
+export interface ScenarioBearing {
+  designation: string;
+  rollingElements: number;
+  elementDiameterMm: number;
+  pitchDiameterMm: number;
+  contactAngleDeg: number;
 }
 
 export interface ScenarioSite {
@@ -61,7 +72,18 @@ const NEMA: Record<string, Base> = {
   "8p-50": { ratedKw: 37, ratedVoltage: 460, ratedCurrent: 64, ratedHz: 60, ratedRpm: 885, poles: 8, rotorBars: 70, statorSlots: 72, designLetter: "C", efficiencyClass: "IE3", efficiencyPct: 93.6, powerFactor: 0.76, connection: "delta", machineGroup: 2, support: "flexible" },
 };
 
-const m = (base: Base, rest: Omit<ScenarioMotor, keyof Base> & Partial<Pick<ScenarioMotor, "driveFed" | "story" | "vibration">>): ScenarioMotor => ({ ...base, ...rest });
+// Deep-groove ball bearings of the sizes these frames usually carry (6200/6300 series, C3 clearance at the drive end).
+// The geometry is invented but typical of the size: pitch diameter about the mean of bore and outside diameter,
+// balls of a standard inch size, 8 in a 63xx and 10 in a 62xx; contact angle 0° (radial load).
+const ball = (designation: string, rollingElements: number, elementDiameterMm: number, pitchDiameterMm: number): ScenarioBearing => ({ designation, rollingElements, elementDiameterMm, pitchDiameterMm, contactAngleDeg: 0 });
+const BEARINGS = {
+  "2p-30": { de: ball("6312 C3", 8, 22.225, 95), nde: ball("6212 C3", 10, 15.875, 85) },
+  "2p-55": { de: ball("6314 C3", 8, 25.4, 110), nde: ball("6213 C3", 10, 16.669, 92.5) },
+  "4p-100": { de: ball("6313 C3", 8, 23.813, 102.5), nde: ball("6213 C3", 10, 16.669, 92.5) },
+  "4p-160": { de: ball("6319 C3", 8, 31.75, 147.5), nde: ball("6316 C3", 8, 26.988, 125) },
+};
+
+const m = (base: Base, rest: Omit<ScenarioMotor, keyof Base> & Partial<Pick<ScenarioMotor, "driveFed" | "story" | "vibration" | "bearings">>): ScenarioMotor => ({ ...base, ...rest });
 
 export const SCENARIO: ScenarioSite[] = [
   {
@@ -71,13 +93,13 @@ export const SCENARIO: ScenarioSite[] = [
     areas: ["Raw Water Intake", "Filtration", "High-Lift Pumping", "Sludge Handling"],
     motors: [
       m(IEC["4p-160"], { tag: "TWT-INT-P01", name: "Intake pump 1", area: "Raw Water Intake", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 78, driveFed: true, story: "drive-fed", vibration: true }),
-      m(IEC["4p-160"], { tag: "TWT-INT-P02", name: "Intake pump 2", area: "Raw Water Intake", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 82, vibration: true }),
+      m(IEC["4p-160"], { tag: "TWT-INT-P02", name: "Intake pump 2", area: "Raw Water Intake", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 82, vibration: true, bearings: BEARINGS["4p-160"] }),
       m(IEC["4p-22"], { tag: "TWT-INT-S01", name: "Band screen drive", area: "Raw Water Intake", drivenEquipment: "conveyor", criticality: "medium", typicalLoadPct: 64 }),
-      m(IEC["2p-30"], { tag: "TWT-FIL-B01", name: "Air-scour blower 1", area: "Filtration", drivenEquipment: "blower", criticality: "medium", typicalLoadPct: 85, vibration: true }),
+      m(IEC["2p-30"], { tag: "TWT-FIL-B01", name: "Air-scour blower 1", area: "Filtration", drivenEquipment: "blower", criticality: "medium", typicalLoadPct: 85, vibration: true, bearings: BEARINGS["2p-30"] }),
       m(IEC["2p-30"], { tag: "TWT-FIL-B02", name: "Air-scour blower 2", area: "Filtration", drivenEquipment: "blower", criticality: "medium", typicalLoadPct: 83 }),
       m(IEC["4p-45"], { tag: "TWT-FIL-P01", name: "Backwash pump 1", area: "Filtration", drivenEquipment: "pump", criticality: "medium", typicalLoadPct: 76 }),
       m(IEC["4p-45"], { tag: "TWT-FIL-P02", name: "Backwash pump 2", area: "Filtration", drivenEquipment: "pump", criticality: "medium", typicalLoadPct: 74 }),
-      m(IEC["4p-160"], { tag: "TWT-HLP-P01", name: "High-lift pump 1", area: "High-Lift Pumping", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 88, vibration: true }),
+      m(IEC["4p-160"], { tag: "TWT-HLP-P01", name: "High-lift pump 1", area: "High-Lift Pumping", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 88, vibration: true, bearings: BEARINGS["4p-160"] }),
       m(IEC["4p-160"], { tag: "TWT-HLP-P02", name: "High-lift pump 2", area: "High-Lift Pumping", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 86 }),
       m(IEC["4p-160"], { tag: "TWT-HLP-P03", name: "High-lift pump 3", area: "High-Lift Pumping", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 90, story: "rotor-fault", vibration: true }),
       m(IEC["2p-55"], { tag: "TWT-HLP-P04", name: "Wash-water pump", area: "High-Lift Pumping", drivenEquipment: "pump", criticality: "medium", typicalLoadPct: 71 }),
@@ -101,7 +123,7 @@ export const SCENARIO: ScenarioSite[] = [
       m(NEMA["4p-150"], { tag: "GBT-CNV-C07", name: "Gallery conveyor 7", area: "Conveyor Gallery", drivenEquipment: "conveyor", criticality: "high", typicalLoadPct: 87, story: "rotor-fault", vibration: true }),
       m(NEMA["4p-100"], { tag: "GBT-CNV-C08", name: "Transfer conveyor 8", area: "Conveyor Gallery", drivenEquipment: "conveyor", criticality: "medium", typicalLoadPct: 77 }),
       m(NEMA["6p-60"], { tag: "GBT-CNV-K01", name: "Lump crusher", area: "Conveyor Gallery", drivenEquipment: "crusher", criticality: "medium", typicalLoadPct: 72 }),
-      m(NEMA["4p-100"], { tag: "GBT-DST-F01", name: "Baghouse fan 1", area: "Dust Control", drivenEquipment: "fan", criticality: "medium", typicalLoadPct: 79, story: "imbalance", vibration: true }),
+      m(NEMA["4p-100"], { tag: "GBT-DST-F01", name: "Baghouse fan 1", area: "Dust Control", drivenEquipment: "fan", criticality: "medium", typicalLoadPct: 79, story: "imbalance", vibration: true, bearings: BEARINGS["4p-100"] }),
       m(NEMA["4p-100"], { tag: "GBT-DST-F02", name: "Baghouse fan 2", area: "Dust Control", drivenEquipment: "fan", criticality: "medium", typicalLoadPct: 80 }),
       m(NEMA["2p-40"], { tag: "GBT-DST-P01", name: "Suppression water pump", area: "Dust Control", drivenEquipment: "pump", criticality: "low", typicalLoadPct: 66 }),
       m(NEMA["4p-150"], { tag: "GBT-CMP-K01", name: "Plant-air compressor 1", area: "Compressor House", drivenEquipment: "compressor", criticality: "high", typicalLoadPct: 83 }),
@@ -115,7 +137,7 @@ export const SCENARIO: ScenarioSite[] = [
     timezone: "Europe/Berlin",
     areas: ["Pump Hall", "Ventilation"],
     motors: [
-      m(IEC["2p-55"], { tag: "KRB-PMP-P01", name: "Booster pump 1", area: "Pump Hall", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 84, vibration: true }),
+      m(IEC["2p-55"], { tag: "KRB-PMP-P01", name: "Booster pump 1", area: "Pump Hall", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 84, vibration: true, bearings: BEARINGS["2p-55"] }),
       m(IEC["2p-55"], { tag: "KRB-PMP-P02", name: "Booster pump 2", area: "Pump Hall", drivenEquipment: "pump", criticality: "high", typicalLoadPct: 81 }),
       m(IEC["2p-55"], { tag: "KRB-PMP-P03", name: "Booster pump 3 (standby)", area: "Pump Hall", drivenEquipment: "pump", criticality: "medium", typicalLoadPct: 79 }),
       m(IEC["4p-22"], { tag: "KRB-PMP-D01", name: "Drainage pump", area: "Pump Hall", drivenEquipment: "pump", criticality: "low", typicalLoadPct: 63 }),

@@ -5,6 +5,7 @@
 // no reading is written from here.
 import { mulberry32, gaussian, type SynthOptions, type SynthVibration } from "../../src/engine/synth.ts";
 import { minCaptureSeconds, ratedSlip } from "../../src/engine/formulas.ts";
+import { defectOrders } from "../../src/engine/bearings.ts";
 import { SCENARIO, type ScenarioMotor, type ScenarioSite } from "./scenario.ts";
 
 export const DEMO_SEED = 20261201;
@@ -75,6 +76,20 @@ const K02_OSCILLATION_FROM = 73;
 export const K02_OSCILLATION_HZ = 1.05;
 /** GBT-DST-F01: target 1× velocity (mm/s r.m.s.) as dust builds up on the impeller. */
 const F01_ONE_X: Record<number, number> = { 45: 1.45, 31: 2.05, 17: 2.95, 3: 3.3 };
+/**
+ * KRB-PMP-P01: an early outer-race mark on the drive-end bearing over its last three rounds: a line 1.5 % below the
+ * bearing's BPFO (rolling elements slip, domain.md §7) and its second harmonic at half the level, velocity mm/s
+ * r.m.s. by days before now. Small beside the 1× line: it shows as bearing markers, it changes no zone.
+ */
+const KRB_P01_OUTER_RACE: Record<number, number> = { 33: 0.04, 19: 0.07, 5: 0.11 };
+
+function outerRaceLines(m: ScenarioMotor, daysAgo: number): SynthVibration["shaftOrderLines"] {
+  const v = m.tag === "KRB-PMP-P01" ? KRB_P01_OUTER_RACE[daysAgo] : undefined;
+  const de = m.bearings?.de;
+  if (v === undefined || !de) return undefined;
+  const bpfo = defectOrders({ position: "DE", ...de }).BPFO * 0.985;
+  return [{ order: bpfo, vRms: v }, { order: 2 * bpfo, vRms: v / 2 }];
+}
 
 function daysFor(site: ScenarioSite, m: ScenarioMotor): number[] {
   const off = SITE_OFFSET_DAYS[site.code] ?? 2;
@@ -165,6 +180,8 @@ export function historyPlan(now: Date): CaptureSpec[] {
           if (m.tag === "GBT-CNV-C07" && C07_DEPTHS[daysAgo] !== undefined) polePassDb = Math.max(18, sidebandDb - 20);
           oneX = Math.round(oneX * 100) / 100;
           vibration = { axis: "H", oneXMmS: oneX, twoXMmS: 0.3 + 0.1 * cr(), twoLineMmS: 0.2 + 0.1 * cr(), polePassDb, noiseAccel: 0.02 };
+          const outerRace = outerRaceLines(m, daysAgo);
+          if (outerRace) vibration.shaftOrderLines = outerRace;
         }
         const sampleRate = keepBlob ? KEPT_SAMPLE_RATE : historySampleRate(m);
         const durationS = captureSeconds(supplyHz, slip, keepBlob ? MIN_CAPTURE_S : MIN_HISTORY_CAPTURE_S);

@@ -1,5 +1,5 @@
 // The analysis pipeline: quality → supply → slip estimators → fused slip → load → rotor → Park → vibration →
-// markers. Pure: the same code runs in the worker, the command line, the tests and the browser.
+// markers → bearing defect lines. Pure: the same code runs in the worker, the command line, the tests and the browser.
 import { ROTOR_GRADE_NAMES } from "./types.ts";
 import type { AnalysisOptions, AnalysisResult, BrokenBarResult, Capture, Channel, Marker, Nameplate, QualityVerdict, SlipEstimate, VibrationResult } from "./types.ts";
 import { channelStats, channelVerdicts, type ChannelStats } from "./quality.ts";
@@ -23,10 +23,11 @@ import {
 import { estimateLoad } from "./load.ts";
 import { assessRotor, gradeFromDepth, measureSidebands, LIGHT_LOAD_PCT, type SidebandMeasurement } from "./rotor.ts";
 import { parkAnalysis, type ParkResult } from "./park.ts";
-import { analyzeVibration, vibrationLowBand, type VibrationAnalysis } from "./vibration.ts";
+import { analyzeVibration, vibrationLowBand, vibrationLowPassHz, type VibrationAnalysis } from "./vibration.ts";
+import { assessBearings, bearingGeometryProblem } from "./bearings.ts";
 import { inferRatedHz, minCaptureSeconds, ratedSlip, rpmFromSlip, syncRpm, rotorHz, slotHarmonicHz, thomsonBrokenBars } from "./formulas.ts";
 
-export const ENGINE_VERSION = "1.0.0";
+export const ENGINE_VERSION = "1.1.0";
 
 interface CurrentChannelWork {
   ch: Channel;
@@ -336,6 +337,27 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
     if (vibration.twoLineHz !== null) markers.push({ name: "2×LF", family: "vibration", hz: r(vibration.twoLineHz, 4), level: lvl(vibration.twoLineMmS), channel: ch });
   }
 
+  // ---- rolling bearings (an indication beside the vibration zone; changes no grade or zone) -------------------
+  let bearings: AnalysisResult["bearings"];
+  if (nameplate.bearings?.length) {
+    const usableBearings = nameplate.bearings.filter((g) => {
+      const problem = bearingGeometryProblem(g);
+      if (problem) quality.push({ code: "bearing-geometry", severity: "warning", message: `Bearing ${g.position} left out: ${problem}.` });
+      return !problem;
+    });
+    if (usableBearings.length) {
+      const shaftHz = slip !== null && fz ? rotorHz(fz, poles, slip) : null;
+      const b = assessBearings(
+        usableBearings,
+        shaftHz ? { shaftHz, supplyHz: fz, polePassHz: slip !== null && fz ? 2 * slip * fz : null, supplySpreadHz: supply?.spreadHz ?? 0 } : null,
+        vibLow.map(({ ch, spec }) => ({ name: ch.name, unit: ch.unit, data: ch.data, lowSpectrum: spec, lowPassHz: vibrationLowPassHz(fs) })),
+        fs,
+      );
+      bearings = b.result;
+      markers.push(...b.markers);
+    }
+  }
+
   const ns = fz ? syncRpm(fz, poles) : null;
   return {
     engineVersion: ENGINE_VERSION,
@@ -352,6 +374,7 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
     brokenBar,
     vibration,
     vibrationChannels,
+    ...(bearings ? { bearings } : {}),
     quality,
     markers,
     supplySource,

@@ -45,6 +45,11 @@ export interface SynthVibration {
   polePassDb?: number | null;
   /** White acceleration noise, r.m.s. m/s² over the whole band (default 0.02). */
   noiseAccel?: number;
+  /**
+   * Extra lines at fixed multiples of the shaft frequency fr, velocity r.m.s. in mm/s each: e.g. a bearing defect
+   * tone at order BPFO/fr × 0.985 (a line 1.5 % below its geometric frequency). Default none.
+   */
+  shaftOrderLines?: Array<{ order: number; vRms: number }>;
 }
 
 export interface SynthOptions {
@@ -229,6 +234,8 @@ export function synthCapture(o: SynthOptions): SynthResult {
       const sb = (v.oneXMmS ?? 1.5) * db(v.polePassDb);
       comps.push({ mult: (1 - s) / p - 2 * s, vRms: sb }, { mult: (1 - s) / p + 2 * s, vRms: sb });
     }
+    // after the standard lines, so their random phases (and the noise) stay as they were without extra lines
+    for (const l of v.shaftOrderLines ?? []) if (l.order * fr < fs / 2) comps.push({ mult: (l.order * (1 - s)) / p, vRms: l.vRms });
     const unit = v.unit ?? "m/s2";
     const data = new Float32Array(n);
     const tmp = new Float64Array(n);

@@ -37,6 +37,85 @@ export interface Nameplate {
   support?: "rigid" | "flexible";
   /** True when the motor is fed by a variable-frequency drive. */
   driveFed?: boolean;
+  /** Rolling bearings with known geometry (drive end, non-drive end), for the defect frequencies (bearings.ts). */
+  bearings?: BearingGeometry[];
+}
+
+export type BearingPosition = "DE" | "NDE";
+
+/** A rolling bearing's geometry: inner race turning with the shaft, outer race fixed in the housing. */
+export interface BearingGeometry {
+  position: BearingPosition;
+  /** Free text, e.g. "6316 C3" (shown, not used in the computation). */
+  designation?: string;
+  /** Nb: number of rolling elements. */
+  rollingElements: number;
+  /** d: rolling-element diameter, mm. */
+  elementDiameterMm: number;
+  /** D: pitch diameter (centre circle of the elements), mm. */
+  pitchDiameterMm: number;
+  /** φ: contact angle in degrees (0 for a deep-groove ball bearing under radial load). Default 0. */
+  contactAngleDeg?: number;
+}
+
+/** Cage (fundamental train), outer-race pass, inner-race pass and rolling-element spin frequencies. */
+export type BearingDefect = "FTF" | "BPFO" | "BPFI" | "BSF";
+
+/** One searched line: a harmonic of a defect frequency of one bearing, on the vibration spectrum. */
+export interface BearingLine {
+  /** Multiple of the defect frequency (1, 2, 3). */
+  harmonic: number;
+  /** Marker label, e.g. "BPFO DE", "2×BSF NDE". */
+  label: string;
+  /** harmonic × defect frequency at the measured shaft speed, Hz. */
+  expectedHz: number;
+  /** Band searched, Hz (below the expected frequency more than above: real lines sit 1–2 % low). */
+  searchHz: [number, number];
+  /** "above band": the line lies above what the capture's sample rate holds; it was not searched. */
+  status: "found" | "not found" | "above band";
+  foundHz: number | null;
+  /** r.m.s. level of the found peak in the channel's unit (`unit`). */
+  level: number | null;
+  unit: string | null;
+  /** The same peak as velocity, mm/s r.m.s. */
+  velocityMmS: number | null;
+  /** How far the peak stands above the median of its neighbourhood, dB. */
+  dbOverFloor: number | null;
+  /** Vibration channel the peak was found on (the one where it stands out most). */
+  channel: string | null;
+  /** Why a peak in the band was not counted, e.g. it is taken as another bearing line. */
+  note?: string;
+}
+
+export interface BearingDefectResult {
+  defect: BearingDefect;
+  /** The defect frequency as a multiple of the shaft frequency (geometry only). */
+  orderOfShaft: number;
+  /** At the measured shaft speed, Hz; null when the speed is unknown. */
+  expectedHz: number | null;
+  lines: BearingLine[];
+  /** True when any of its lines was found. */
+  found: boolean;
+}
+
+export interface BearingResult {
+  position: BearingPosition;
+  designation: string | null;
+  defects: BearingDefectResult[];
+}
+
+/** Bearing defect frequencies on the vibration spectrum: an indication for the analyst, not a grade. */
+export interface BearingsResult {
+  /** Measured shaft frequency used (fused speed / 60), Hz; null when the speed was not found. */
+  shaftHz: number | null;
+  rpm: number | null;
+  /** Search band relative to the expected frequency: from −lowPct % to +highPct %. */
+  tolerance: { lowPct: number; highPct: number };
+  /** Vibration channels searched. */
+  channels: string[];
+  bearings: BearingResult[];
+  /** Why nothing was searched (no vibration channel, speed not found), else null. */
+  note: string | null;
 }
 
 export interface AnalysisOptions {
@@ -108,7 +187,7 @@ export interface VibrationResult {
 export interface Marker {
   /** Label drawn on the plot, e.g. "f", "f − 2sf", "f + fr", "RSH", "1×", "2×LF". */
   name: string;
-  /** Marker family for the viewer's keys: "supply" | "broken-bar" | "eccentricity" | "slot" | "harmonic" | "vibration". */
+  /** Marker family for the viewer's keys: "supply" | "broken-bar" | "eccentricity" | "slot" | "harmonic" | "vibration" | "bearing". */
   family: string;
   hz: number;
   /** Level in dB relative to the supply component (current) or mm/s (vibration). */
@@ -127,6 +206,8 @@ export interface AnalysisResult {
   loadMethod: string | null;
   brokenBar: BrokenBarResult;
   vibration: VibrationResult | null;
+  /** Bearing defect frequencies searched on the vibration spectrum; absent when the nameplate has no bearing geometry. */
+  bearings?: BearingsResult;
   quality: QualityVerdict[];
   markers: Marker[];
   /** Free-form extras (per-phase results, Park's vector, model-based load...). */

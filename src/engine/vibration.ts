@@ -68,8 +68,13 @@ export interface VibrationAnalysis {
   twoX: Peak | null;
 }
 
+/** Pass band edge of the fine low-band vibration spectrum, Hz (400, or fs/2.5 at low sample rates). */
+export function vibrationLowPassHz(fs: number, passHz = 400): number {
+  return Math.min(passHz, fs / 2.5);
+}
+
 export function vibrationLowBand(ch: Channel, fs: number, passHz = 400): LineSpectrum {
-  const dec = decimateReal(ch.data, fs, Math.min(passHz, fs / 2.5));
+  const dec = decimateReal(ch.data, fs, vibrationLowPassHz(fs, passHz));
   return realSpectrum(dec.data, dec.sampleRate);
 }
 

@@ -73,9 +73,20 @@ export interface Asset {
   driveFed: boolean | null;
   machineGroup: string | number | null;
   support: string | null;
+  /** Rolling bearings on record, drive end and non-drive end (null: not given). */
+  bearings?: { de: AssetBearing | null; nde: AssetBearing | null };
   nameplateVersion: number;
   latest: LatestReading | null;
   openFindings: number;
+}
+
+/** One bearing as GET /assets/:id answers it: designation, Nb, d and D (mm), contact angle (°). */
+export interface AssetBearing {
+  designation: string | null;
+  rollingElements: number | null;
+  elementDiameterMm: number | null;
+  pitchDiameterMm: number | null;
+  contactAngleDeg: number | null;
 }
 
 export interface MeasurementPoint {

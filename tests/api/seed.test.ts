@@ -20,6 +20,7 @@ import { SCENARIO } from "../../server/seed/scenario.ts";
 import { SCENARIO_MOTORS, SCENARIO_TAGS, pointsFor } from "../../server/seed/fleet.ts";
 import { EXTRA_DEMO_USERS } from "../../server/seed/people.ts";
 import { historyPlan } from "../../server/seed/story.ts";
+import { bearingsBody } from "../../src/shared/schemas/bearings.ts";
 import type { BlobStore } from "../../server/blob/store.ts";
 import type { HistorySummary } from "../../server/seed/history.ts";
 
@@ -195,6 +196,26 @@ describe("demo seed", () => {
       expect(an.supply_hz).toBeLessThanOrEqual(47);
       expect(an.rotor_grade).toBe("R1");
     }
+  });
+
+  it("watched motors carry bearing geometry the register accepts; KRB-PMP-P01 shows its outer-race line, the others none", async () => {
+    const withBearings = SCENARIO_MOTORS.filter((m) => m.bearings);
+    expect(withBearings.length).toBeGreaterThanOrEqual(3);
+    for (const m of withBearings) {
+      // the same rules as POST /api/assets (src/shared/schemas/bearings.ts)
+      expect(bearingsBody.safeParse(m.bearings).success, m.tag).toBe(true);
+      const row = await db("assets").where({ tag: m.tag }).first();
+      expect(row.bearing_de_designation, m.tag).toBe(m.bearings!.de!.designation);
+      const an = await latest(m.tag);
+      expect(an.params.nameplate.bearings.map((b: { position: string }) => b.position), m.tag).toEqual(["DE", "NDE"]);
+      const found = (an.result.bearings.bearings as { position: string; defects: { defect: string; lines: { status: string }[] }[] }[]).flatMap((b) =>
+        b.defects.filter((d) => d.lines.some((l) => l.status === "found")).map((d) => `${d.defect} ${b.position}`),
+      );
+      expect(found, m.tag).toEqual(m.tag === "KRB-PMP-P01" ? ["BPFO DE"] : []);
+      expect(an.result.markers.some((k: { family: string }) => k.family === "bearing"), m.tag).toBe(true);
+    }
+    // an indication only: the pump's zone stays A on the captures with the line
+    for (const an of (await all("KRB-PMP-P01")).slice(-3)) expect(an.vibration_zone).toBe("A");
   });
 
   it("GBT-CMP-K02 has a dismissed load-oscillation false alarm and is flagged since", async () => {

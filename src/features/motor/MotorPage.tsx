@@ -16,6 +16,7 @@ import { useCaptureDetail, useMotor, useMotorCaptureHistory, useMotorFindings, u
 import { LoadComparison, ModelCurves } from "./components/ModelCurves.tsx";
 import { ProjectionNote, Trends } from "./components/Trends.tsx";
 import { MoveMotorButton } from "./components/MoveMotor.tsx";
+import { Bearings } from "./components/Bearings.tsx";
 import { useSession } from "../../lib/session.ts";
 
 export default function MotorPage() {
@@ -90,6 +91,9 @@ export default function MotorPage() {
         <aside className="flex flex-col gap-4">
           <Section title="Nameplate">
             <Nameplate m={m} />
+          </Section>
+          <Section title="Bearings">
+            <Bearings m={m} canEdit={can("assets.write")} />
           </Section>
           <Section title="Measurement points">
             {m.measurementPoints.length === 0 ? (

@@ -13,8 +13,12 @@ import { useAssetFindings } from "./api/get-findings.ts";
 import { useMotorCaptures } from "./api/get-motor-captures.ts";
 import { QualityList, Readings, SlipEstimates } from "./components/Readings.tsx";
 import { SpectrumViewer } from "./components/SpectrumViewer.tsx";
+import { BearingLines } from "./components/BearingLines.tsx";
 import { FindingLevel, VerdictForm, VerdictHistory } from "./components/VerdictForm.tsx";
 import { WaveformPlot } from "./components/WaveformPlot.tsx";
+
+/** Marker families of the vibration spectrum; the others belong to the current spectrum. */
+const VIBRATION_FAMILIES = new Set(["vibration", "bearing"]);
 
 const STATUS_WORD: Record<string, string> = {
   received: "Received, waiting to be queued",
@@ -83,7 +87,7 @@ export default function CapturePage() {
                   supplyHz={a.supplyHz}
                   slip={a.slip}
                   rpm={a.rpm}
-                  markers={a.markers}
+                  markers={a.markers.filter((m) => !VIBRATION_FAMILIES.has(m.family))}
                   earlier={earlier}
                   thisTakenAt={c.takenAt}
                   title="Current spectrum"
@@ -101,7 +105,7 @@ export default function CapturePage() {
                   supplyHz={a.supplyHz}
                   slip={a.slip}
                   rpm={a.rpm}
-                  markers={a.markers.filter((m) => m.family === "vibration")}
+                  markers={a.markers.filter((m) => VIBRATION_FAMILIES.has(m.family))}
                   earlier={earlier}
                   thisTakenAt={c.takenAt}
                   title="Vibration spectrum"
@@ -122,6 +126,11 @@ export default function CapturePage() {
             <Section title="Slip estimates">
               <SlipEstimates a={a} />
             </Section>
+            {a.bearings && (
+              <Section title="Bearing defect lines">
+                <BearingLines b={a.bearings} />
+              </Section>
+            )}
             <Section title="Finding">
               {findings.isPending ? (
                 <p className="text-ink-muted">Loading…</p>

@@ -14,6 +14,7 @@ import { useSettled } from "../lib/use-settled.ts";
 import {
   cursorReadout,
   findPeaks,
+  markersForChannel,
   minMaxDecimate,
   nearestIndex,
   panRange,
@@ -69,7 +70,7 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   const [cursorHz, setCursorHz] = useState<number | null>(null);
   const [hover, setHover] = useState<{ hz: number; idx: number | null } | null>(null);
   const [families, setFamilies] = useState<Set<string>>(
-    () => new Set(kind === "vibration" ? ["vibration"] : ["supply", "broken-bar", "eccentricity", "slot", "harmonic"]),
+    () => new Set(kind === "vibration" ? ["vibration", "bearing"] : ["supply", "broken-bar", "eccentricity", "slot", "harmonic"]),
   );
   const [overlayId, setOverlayId] = useState<number | null>(null);
   const [showHelp, setShowHelp] = useState(false);
@@ -106,14 +107,8 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   const peaks = useMemo(() => findPeaks(peakValues, { prominence: 10, halfWidth: 400 }), [peakValues]);
 
   // The engine tags markers with the channel it measured them on; the frequencies hold for every phase / axis, so
-  // a channel without its own markers shows those of the analysed one (and says so).
-  const { channelMarkers, markerSource } = useMemo(() => {
-    const own = markers.filter((m) => m.channel === channel);
-    if (own.length) return { channelMarkers: own, markerSource: channel };
-    const names = new Set(channels.map((c) => c.name));
-    const source = markers.find((m) => names.has(m.channel))?.channel ?? markers[0]?.channel ?? channel;
-    return { channelMarkers: markers.filter((m) => m.channel === source), markerSource: source };
-  }, [markers, channel, channels]);
+  // a channel without its own markers of a family shows those of the analysed one (and says so).
+  const { channelMarkers, markerSource, partly } = useMemo(() => markersForChannel(markers, channel, channels.map((c) => c.name)), [markers, channel, channels]);
   const presentFamilies = MARKER_FAMILIES.filter((f) => markers.some((m) => m.family === f.family));
 
   const levelAt = (hz: number): number | null => {
@@ -336,7 +331,7 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
         <fieldset className="mt-2 flex flex-wrap items-center gap-x-4 gap-y-1">
           <legend className="sr-only">Marker families</legend>
           <span className="text-caption text-ink-muted">
-            Markers{markerSource !== channel ? <> (found on <span className="num">{markerSource}</span>)</> : null}:
+            Markers{markerSource !== channel ? <> ({partly ? "some " : ""}found on <span className="num">{markerSource}</span>)</> : null}:
           </span>
           {presentFamilies.map((f) => (
             <label key={f.family} className="inline-flex cursor-pointer items-center gap-1.5 text-caption">

@@ -1,5 +1,7 @@
 // Marker families of the engine (Marker.family) → key, name and stroke. Each family has its own dash pattern as
-// well as its own colour, and every marker carries its text label, so nothing relies on colour alone.
+// well as its own colour, and every marker carries its text label, so nothing relies on colour alone. The key
+// toggles the family in the spectrum view (its key help, "?", lists them from here); the view's own keys are
+// a (around supply), f (full range), + − ← → Esc ?, so a family takes a letter none of those use.
 
 export interface MarkerFamily {
   family: string;
@@ -16,6 +18,7 @@ export const MARKER_FAMILIES: MarkerFamily[] = [
   { family: "slot", key: "r", label: "Rotor slot harmonics", color: "#6247a0", dash: [9, 3, 2, 3] },
   { family: "harmonic", key: "h", label: "Supply harmonics n·f", color: "#6f7277", dash: [1, 2] },
   { family: "vibration", key: "v", label: "Vibration: 1×, 2×LF, pole pass", color: "#2d6a3b", dash: [5, 2] },
+  { family: "bearing", key: "d", label: "Bearing defects: FTF, BPFO, BPFI, BSF", color: "#8a5a00", dash: [4, 2, 1, 2] },
 ];
 
 const FALLBACK: MarkerFamily = { family: "other", key: "", label: "Other", color: "#85888c", dash: [3, 3] };

@@ -50,6 +50,37 @@ export interface PlacedMarker<M extends MarkerLike = MarkerLike> {
 }
 
 /**
+ * The markers a channel shows. The engine tags each marker with the channel it was measured on, and the
+ * frequencies hold for every phase or axis, so per family: the channel's own markers of that family, else those of
+ * the first of `channelNames` (the viewer's channels) that has the family, else of any channel. `markerSource` is
+ * the channel the borrowed markers come from (the channel itself when nothing is borrowed); `partly` says whether
+ * some families are the channel's own.
+ */
+export function markersForChannel<M extends MarkerLike>(
+  markers: readonly M[],
+  channel: string,
+  channelNames: readonly string[],
+): { channelMarkers: M[]; markerSource: string; partly: boolean } {
+  const families = [...new Set(markers.map((m) => m.family))];
+  const out: M[] = [];
+  let source: string | null = null;
+  let own = 0;
+  for (const family of families) {
+    const of = markers.filter((m) => m.family === family);
+    const mine = of.filter((m) => m.channel === channel);
+    if (mine.length) {
+      out.push(...mine);
+      own++;
+      continue;
+    }
+    const from = channelNames.find((n) => of.some((m) => m.channel === n)) ?? of[0].channel;
+    out.push(...of.filter((m) => m.channel === from));
+    source ??= from;
+  }
+  return { channelMarkers: out, markerSource: source ?? channel, partly: source !== null && own > 0 };
+}
+
+/**
  * Places the markers of the enabled families on the x axis (exactly at the engine's frequencies) and stacks
  * their labels in rows so that two labels closer than their width never share a row. Lines closer than
  * `mergePx` (they look like one line) keep only the label of the strongest; a label that finds no free row
