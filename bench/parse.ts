@@ -1,9 +1,10 @@
-// Parser throughput: a ~50 MB numeric CSV (time + three phase currents) and WAV files of the same samples.
+// Parser throughput: a ~50 MB numeric CSV (time + three phase currents) and WAV files of the same samples, read by
+// the full parsers and by the streaming validator (1 MiB chunks, as the upload check reads them).
 // Run directly with `npx tsx bench/parse.ts`; the benchmark suite imports benchParse().
 
 import { pathToFileURL } from "node:url";
 import type { Capture } from "../src/engine/types.ts";
-import { parseCsv, parseWav, writeCsv, writeWav } from "../src/engine/parse/index.ts";
+import { createCaptureValidator, parseCsv, parseWav, writeCsv, writeWav } from "../src/engine/parse/index.ts";
 
 export interface BenchFigure {
   name: string;
@@ -72,9 +73,20 @@ export async function benchParse(): Promise<BenchFigure[]> {
     figure("csv (t + 3 currents)", csv, () => parseCsv(csv, { minSamples })),
     figure("wav 16-bit PCM (3 ch)", wav16, () => parseWav(wav16, { minSamples })),
     figure("wav 32-bit float (3 ch)", wavFloat, () => parseWav(wavFloat, { minSamples })),
+    figure("validate csv, 1 MiB chunks", csv, () => validateInChunks(csv, minSamples)),
+    figure("validate wav float, 1 MiB", wavFloat, () => validateInChunks(wavFloat, minSamples)),
   ];
   return figures;
 }
+
+/** The streaming validator over the file in 1 MiB chunks; throws when it would need a second reading. */
+function validateInChunks(bytes: Uint8Array, minSamples: number): void {
+  const validator = createCaptureValidator({ minSamples });
+  for (let p = 0; p < bytes.length; p += CHUNK_BYTES) validator.push(bytes.subarray(p, p + CHUNK_BYTES));
+  if (!validator.finish()) throw new Error("the benchmark file needed a second reading");
+}
+
+const CHUNK_BYTES = 1 << 20;
 
 const runDirectly = process.argv[1] !== undefined && import.meta.url === pathToFileURL(process.argv[1]).href;
 if (runDirectly) {

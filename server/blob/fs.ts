@@ -4,9 +4,13 @@ import path from "node:path";
 import crypto from "node:crypto";
 import { Readable } from "node:stream";
 import { pipeline } from "node:stream/promises";
-import { checkKey, type BlobSource, type BlobStore } from "./store.ts";
+import { checkKey, type BlobFile, type BlobSource, type BlobStore } from "./store.ts";
 
-/** Blobs as files under one root folder. Writes go to a temp file in the same folder, then rename (atomic). */
+/**
+ * Blobs as files under one root folder. Writes go to a temp file in the same folder, then rename (atomic). A file
+ * source with `move: true` is renamed into place directly (no copy; also atomic), or copied and then removed when
+ * it is on another file system (EXDEV).
+ */
 export function createFsBlobStore(root: string): BlobStore {
   const abs = (key: string) => path.join(root, checkKey(key));
   return {
@@ -14,6 +18,7 @@ export function createFsBlobStore(root: string): BlobStore {
     async put(key, source) {
       const dest = abs(key);
       await fsp.mkdir(path.dirname(dest), { recursive: true });
+      if (isPath(source) && source.move && (await moveInto(source.path, dest))) return { size: (await fsp.stat(dest)).size };
       const tmp = `${dest}.${crypto.randomBytes(6).toString("hex")}.part`;
       try {
         if (isPath(source)) await fsp.copyFile(source.path, tmp);
@@ -24,6 +29,7 @@ export function createFsBlobStore(root: string): BlobStore {
         await fsp.rm(tmp, { force: true });
         throw err;
       }
+      if (isPath(source) && source.move) await fsp.rm(source.path, { force: true });
       return { size: (await fsp.stat(dest)).size };
     },
     async get(key) {
@@ -59,6 +65,17 @@ export function createFsBlobStore(root: string): BlobStore {
   };
 }
 
-export function isPath(source: BlobSource): source is { path: string } {
+/** Renames a file into place; false when it is on another file system (the caller copies instead). */
+async function moveInto(from: string, dest: string): Promise<boolean> {
+  try {
+    await fsp.rename(from, dest);
+    return true;
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === "EXDEV") return false;
+    throw err;
+  }
+}
+
+export function isPath(source: BlobSource): source is BlobFile {
   return !(source instanceof Uint8Array) && !(source instanceof Readable) && typeof (source as { path?: unknown }).path === "string";
 }

@@ -5,7 +5,7 @@ import type { BlobStore } from "./store.ts";
 import { createFsBlobStore } from "./fs.ts";
 import { createS3BlobStore } from "./s3.ts";
 
-export type { BlobStore, BlobSource } from "./store.ts";
+export type { BlobFile, BlobStore, BlobSource } from "./store.ts";
 
 /** The configured blob store: files under dataDir/blobs, or an S3-compatible bucket when BLOB_DRIVER=s3. */
 export async function createBlobStore(config: Config): Promise<BlobStore> {

@@ -50,6 +50,7 @@ export function createS3BlobStore(cfg: Config["blob"]): BlobStore & { ensureBuck
       let Body: Buffer | Uint8Array | Readable;
       let ContentLength: number;
       if (isPath(source)) {
+        // Streamed from the file, with or without `move` (the caller removes its temp file).
         ContentLength = (await fsp.stat(source.path)).size;
         Body = fs.createReadStream(source.path);
       } else if (source instanceof Uint8Array) {

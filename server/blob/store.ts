@@ -1,7 +1,17 @@
 import type { Readable } from "node:stream";
 
-/** What a blob can be written from: bytes in memory, a readable stream, or a file already on disk. */
-export type BlobSource = Buffer | Uint8Array | Readable | { path: string };
+/**
+ * What a blob can be written from: bytes in memory, a readable stream, or a file already on disk. A file with
+ * `move: true` is one the caller no longer needs (an upload's temp file): the store may take it, the file-system
+ * driver by renaming it into place instead of copying, so the caller must not use the path afterwards (removing
+ * its folder is still fine).
+ */
+export type BlobSource = Buffer | Uint8Array | Readable | BlobFile;
+
+export interface BlobFile {
+  path: string;
+  move?: boolean;
+}
 
 /**
  * Where capture files live. Keys are slash-separated relative paths ("captures/2026/12/<uuid>.csv").

@@ -32,6 +32,8 @@ export interface StoreCaptureInput {
   /** The recording: bytes in memory, a file on disk, or a readable stream. Exactly one. */
   bytes?: Uint8Array;
   path?: string;
+  /** With `path`: a temp file the caller no longer needs, which the blob store may move instead of copy. */
+  movePath?: boolean;
   stream?: Readable;
   notes?: string | null;
   meta?: CaptureMeta;
@@ -47,7 +49,7 @@ const EXT: Record<string, string> = { csv: "csv", wav: "wav" };
 
 function sourceOf(input: StoreCaptureInput): BlobSource {
   if (input.bytes) return input.bytes;
-  if (input.path) return { path: input.path };
+  if (input.path) return { path: input.path, move: input.movePath === true };
   if (input.stream) return input.stream;
   throw new Error("storeCaptureAndQueue: give bytes, path or stream");
 }

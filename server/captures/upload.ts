@@ -1,18 +1,21 @@
 // Upload intake: multipart files are streamed by multer to a private temp folder under dataDir (never held
-// whole in memory while receiving), checked by content, parsed with the engine's parser, then handed to
-// storeCapturesAndQueue. The temp folder is removed whatever happens.
+// whole in memory while receiving), checked by content as they are read back in 1 MiB chunks through the engine's
+// streaming validator (the full parser's verdict, never the whole file in memory), then handed to
+// storeCapturesAndQueue, which moves them into the blob store. The temp folder is removed whatever happens.
+import fs from "node:fs";
 import fsp from "node:fs/promises";
 import path from "node:path";
 import crypto from "node:crypto";
 import multer from "multer";
 import type { Request, Response } from "express";
-import { CaptureParseError, parseCapture, sniffFormat } from "../../src/engine/parse/index.ts";
+import { CaptureParseError, parseCapture, sniffFormat, validateCapture, type CaptureSummary } from "../../src/engine/parse/index.ts";
 import type { AppContext } from "../context.ts";
 import { HttpError } from "../errors.ts";
-import { summariseCapture } from "./engine-io.ts";
 import type { CaptureMeta } from "./ingest.ts";
 
 export const MAX_FILES_PER_UPLOAD = 20;
+/** Read size when checking a received file: the validator holds about this much (plus one partial line). */
+export const CHECK_CHUNK_BYTES = 1 << 20;
 
 export interface ReceivedFile {
   fileName: string;
@@ -77,8 +80,10 @@ export interface CheckedFile extends ReceivedFile {
 }
 
 /**
- * Tell the type from the first bytes, then parse the whole file with the engine's parser so a bad file is refused
- * now, with the parser's message naming the line or byte, rather than failing later in the worker.
+ * Tell the type from the first bytes, then stream the whole file through the engine's validator (the full parser's
+ * rules and messages, in bounded memory) so a bad file is refused now, with the message naming the line or byte,
+ * rather than failing later in the worker. The file is read once, or twice when the validator asks (a CSV time
+ * column it cannot settle in one reading, WAV float data before its "fmt " chunk).
  */
 export async function checkFile(f: ReceivedFile, sampleRate: number | undefined): Promise<CheckedFile> {
   const head = Buffer.alloc(Math.min(4096, f.size));
@@ -102,10 +107,9 @@ export async function checkFile(f: ReceivedFile, sampleRate: number | undefined)
     }
     throw new FileRejected(415, message, "unsupported-type", { fileName: f.fileName, byte: 0 });
   }
-  const bytes = await fsp.readFile(f.path);
   try {
-    const capture = parseCapture(bytes, { fileName: f.fileName, sampleRate });
-    return { ...f, format, meta: summariseCapture(capture) };
+    const summary = await validateCapture(() => fs.createReadStream(f.path, { highWaterMark: CHECK_CHUNK_BYTES }), { fileName: f.fileName, sampleRate });
+    return { ...f, format: summary.format, meta: captureMeta(summary) };
   } catch (err) {
     if (err instanceof CaptureParseError) {
       const status = err.code === "unknown-format" ? 415 : 422;
@@ -114,6 +118,15 @@ export async function checkFile(f: ReceivedFile, sampleRate: number | undefined)
     }
     throw err;
   }
+}
+
+/** Sample rate, duration and channel list for the captures row. */
+export function captureMeta(summary: CaptureSummary): Required<CaptureMeta> {
+  return {
+    sampleRate: summary.sampleRate,
+    durationS: summary.durationS,
+    channels: summary.channels.map((c) => ({ name: c.name, kind: c.kind, unit: c.unit, position: c.position ?? null })),
+  };
 }
 
 export function removeDir(dir: string) {

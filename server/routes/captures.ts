@@ -51,6 +51,7 @@ export function captureRoutes(ctx: AppContext) {
           fileName: f.fileName,
           format: f.format,
           path: f.path,
+          movePath: true, // the temp file goes into the blob store as it is (renamed, not copied)
           notes: meta.notes ?? null,
           meta: f.meta,
         })),

@@ -1,5 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import fs from "node:fs";
+import fsp from "node:fs/promises";
 import os from "node:os";
 import path from "node:path";
 import { Readable } from "node:stream";
@@ -73,6 +74,46 @@ describe("blob store", () => {
       await contract(createFsBlobStore(root));
       const all = fs.readdirSync(root, { recursive: true }).map(String);
       expect(all.some((f) => f.endsWith(".part"))).toBe(false);
+    } finally {
+      fs.rmSync(root, { recursive: true, force: true });
+    }
+  });
+
+  it("file-system driver moves a file given with move: true (same inode, source gone), and copies it across file systems", async () => {
+    const root = fs.mkdtempSync(path.join(os.tmpdir(), "barhound-fsblob-"));
+    try {
+      const store = createFsBlobStore(root);
+      const source = path.join(root, "upload.tmp");
+      fs.writeFileSync(source, Buffer.alloc(70_000, 3));
+      const inode = fs.statSync(source).ino;
+      expect(await store.put("captures/9/moved.csv", { path: source, move: true })).toEqual({ size: 70_000 });
+      expect(fs.existsSync(source)).toBe(false);
+      expect(fs.statSync(path.join(root, "captures/9/moved.csv")).ino).toBe(inode);
+
+      // rename(2) across file systems fails with EXDEV: the driver copies (atomically, through a .part file) and
+      // removes the source, as a move would.
+      fs.writeFileSync(source, Buffer.alloc(50_000, 4));
+      const sourceInode = fs.statSync(source).ino;
+      const dest = path.join(root, "captures/9/copied.csv");
+      const exdev = vi.spyOn(fsp, "rename").mockRejectedValueOnce(Object.assign(new Error("cross-device link not permitted"), { code: "EXDEV" }));
+      try {
+        expect(await store.put("captures/9/copied.csv", { path: source, move: true })).toEqual({ size: 50_000 });
+        expect(exdev.mock.calls.map(([from, to]) => [path.relative(root, String(from)).replace(/\.[0-9a-f]{12}\.part$/, ".part"), to])).toEqual([
+          ["upload.tmp", dest],
+          ["captures/9/copied.csv.part", dest],
+        ]);
+      } finally {
+        exdev.mockRestore();
+      }
+      expect(fs.statSync(dest).ino).not.toBe(sourceInode);
+      expect(fs.existsSync(source)).toBe(false);
+      expect(fs.readFileSync(path.join(root, "captures/9/copied.csv")).equals(Buffer.alloc(50_000, 4))).toBe(true);
+      expect(await store.list("captures/9/")).toEqual(["captures/9/copied.csv", "captures/9/moved.csv"]);
+
+      // Without move the source stays where it is.
+      fs.writeFileSync(source, "Ia\n1\n");
+      await store.put("captures/9/kept.csv", { path: source });
+      expect(fs.readFileSync(source, "utf8")).toBe("Ia\n1\n");
     } finally {
       fs.rmSync(root, { recursive: true, force: true });
     }

@@ -1,9 +1,14 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
 import request from "supertest";
 import { signedIn } from "../helpers/context.ts";
 import { captureFile, listFiles, makeMotor, makePipelineEnv, type PipelineEnv } from "../helpers/pipeline.ts";
 import { decimateMinMax } from "../../server/spectra.ts";
 import { storeCaptureAndQueue } from "../../server/captures/ingest.ts";
+import { CHECK_CHUNK_BYTES, checkFile, FileRejected } from "../../server/captures/upload.ts";
+import type { CaptureQueue } from "../../server/queue.ts";
 
 // Uploads without a worker running: what is stored, what is refused, and that a refusal leaves nothing behind.
 let env: PipelineEnv;
@@ -157,6 +162,51 @@ describe("POST /api/captures", () => {
     }
     expect((await request(env.app).post("/api/captures").field("assetId", String(assetId))).status).toBe(401);
   });
+
+  it("stores the received file byte for byte and takes the row's sample rate, duration and channels from the check", async () => {
+    const lines = ["time_s,Ia,acc_h [g]", ...Array.from({ length: 4000 }, (_, i) => `${(i / 2000).toFixed(6)},${Math.sin(i / 5).toFixed(4)},${(i % 9) / 100}`)];
+    const file = Buffer.from(`${lines.join("\n")}\n`);
+    const res = await (await signedIn(env.app, "analyst")).post("/api/captures").field("assetId", String(assetId)).attach("file", file, "timed.csv");
+    expect(res.status).toBe(202);
+    const row = await env.db("captures").where({ id: res.body.captures[0].id }).first();
+    expect(row).toMatchObject({ format: "csv", sample_rate: 2000, channel_count: 2 });
+    expect(Number(row.byte_size)).toBe(file.length);
+    expect(row.duration_s).toBeCloseTo(2, 9);
+    expect(row.channels).toEqual([
+      { name: "Ia", kind: "current", unit: "A", position: "A" },
+      { name: "acc_h", kind: "vibration", unit: "g", position: "H" },
+    ]);
+    expect(fs.readFileSync(path.join(env.blobDir, row.blob_key)).equals(file)).toBe(true);
+    expect(listFiles(`${env.dataDir}/tmp`)).toEqual([]);
+  });
+
+  it("leaves nothing behind when the ingest fails after the files were moved into the blob store", async () => {
+    const real = env.ctx.services.queue as CaptureQueue;
+    const blobsBefore = listFiles(env.blobDir).length;
+    let blobsWhenQueueing = -1;
+    let tempFilesWhenQueueing = -1;
+    const failing = async () => {
+      blobsWhenQueueing = listFiles(env.blobDir).length;
+      tempFilesWhenQueueing = listFiles(`${env.dataDir}/tmp`).length;
+      throw new Error("queue unavailable");
+    };
+    env.ctx.services.queue = Object.create(real, { sendAnalysis: { value: failing } });
+    try {
+      const res = await refused((agent) =>
+        agent
+          .post("/api/captures")
+          .field("assetId", String(assetId))
+          .attach("file", captureFile({ seed: 21 }), "first.csv")
+          .attach("file", captureFile({ seed: 22, format: "wav" }), "second.wav"),
+      );
+      expect(res.status).toBe(500);
+      // Both files had been moved (not copied) into the blob store when the queue failed; refused() saw them go.
+      expect(blobsWhenQueueing).toBe(blobsBefore + 2);
+      expect(tempFilesWhenQueueing).toBe(0);
+    } finally {
+      env.ctx.services.queue = real;
+    }
+  });
 });
 
 describe("GET /api/captures", () => {
@@ -224,5 +274,50 @@ describe("spectrum decimation", () => {
     expect(zoom.body.resolutionHz).toBeLessThan(0.05);
     const peak = zoom.body.hz[zoom.body.max.indexOf(Math.max(...zoom.body.max))];
     expect(peak).toBeCloseTo(50, 0);
+  });
+});
+
+describe("checkFile (the upload's content check)", () => {
+  let dir: string;
+  beforeAll(() => {
+    dir = fs.mkdtempSync(path.join(os.tmpdir(), "barhound-check-"));
+  });
+  afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+  /** A time + current CSV of several read chunks, as a received file. */
+  function received(name: string, edit: (lines: string[]) => void) {
+    const lines = ["t,Ia", ...Array.from({ length: 200_000 }, (_, i) => `${(i / 10000).toFixed(6)},${Math.sin(i / 9).toFixed(4)}`)];
+    edit(lines);
+    const file = path.join(dir, name);
+    fs.writeFileSync(file, `${lines.join("\n")}\n`);
+    const size = fs.statSync(file).size;
+    expect(size).toBeGreaterThan(2 * CHECK_CHUNK_BYTES);
+    return { fileName: name, path: file, size };
+  }
+
+  async function rejection(run: Promise<unknown>): Promise<FileRejected> {
+    const err = await run.then(() => null, (e: unknown) => e);
+    expect(err).toBeInstanceOf(FileRejected);
+    return err as FileRejected;
+  }
+
+  it("accepts a multi-chunk CSV and reports what the parser would", async () => {
+    const checked = await checkFile(received("ok.csv", () => {}), undefined);
+    expect(checked).toMatchObject({ format: "csv", meta: { sampleRate: 10000, channels: [{ name: "Ia", kind: "current", unit: "A", position: "A" }] } });
+    expect(checked.meta.durationS).toBeCloseTo(20, 9);
+  });
+
+  it("names the line of a bad cell far past the first chunk (422), and of a time gap found in the second reading", async () => {
+    const bad = await rejection(checkFile(received("bad.csv", (l) => (l[150_000] = "14.999900,12.5x")), undefined));
+    expect(bad).toMatchObject({ status: 422, code: "non-numeric-cell", detail: { fileName: "bad.csv", line: 150_001, column: 2 } });
+    expect(bad.message).toBe('bad.csv: Line 150001, column 2 (Ia): "12.5x" is not a number.');
+    const gap = await rejection(checkFile(received("gap.csv", (l) => l.splice(60_000, 1)), undefined));
+    expect(gap).toMatchObject({ status: 422, code: "time-not-uniform", detail: { line: 60_001, column: 1 } });
+    expect(gap.message).toMatch(/^gap\.csv: Line 60001: the time step is 0\.0002 s/);
+  });
+
+  it("answers 415 for a line that runs on past 1 MiB (not a capture table)", async () => {
+    const long = await rejection(checkFile(received("long.csv", (l) => (l[5] = `0.000400,${"7".repeat(CHECK_CHUNK_BYTES + 100)}`)), undefined));
+    expect(long).toMatchObject({ status: 415, code: "unknown-format", detail: { line: 6 } });
   });
 });

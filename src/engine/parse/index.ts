@@ -1,9 +1,10 @@
-// Capture parsers of the analysis engine: CSV and WAV in, Capture out. Pure: bytes in, no I/O.
+// Capture parsers of the analysis engine: CSV and WAV in, Capture out; and the streaming validator that gives the
+// same verdict in bounded memory (capture-validator.ts). Pure: bytes in, no I/O.
 
 import type { Capture } from "../types.ts";
 import { parseCsv } from "./csv.ts";
-import { CaptureParseError, DEFAULT_MIN_SAMPLES } from "./errors.ts";
-import { describeForeignFile, sniffFormat } from "./sniff.ts";
+import { DEFAULT_MIN_SAMPLES } from "./errors.ts";
+import { emptyFileError, firstNonBlank, foreignFileError, sniffFormat } from "./sniff.ts";
 import { parseWav, type WavChannelOption } from "./wav.ts";
 
 export { CaptureParseError, DEFAULT_MIN_SAMPLES, isCaptureParseError } from "./errors.ts";
@@ -14,6 +15,14 @@ export { parseWav, writeWav, type WavChannelOption, type WavParseOptions, type W
 export { sniffFormat, type CaptureFormat } from "./sniff.ts";
 export { parseDecimal, scanNumber, newScanResult, type ScanResult } from "./number-scan.ts";
 export { classifyColumn, classifyColumns, timeColumnInfo, type ColumnMeaning } from "./channel-names.ts";
+export {
+  captureSummary,
+  createCaptureValidator,
+  validateCapture,
+  type CaptureSummary,
+  type CaptureValidator,
+  type ChannelSummary,
+} from "./capture-validator.ts";
 
 export interface CaptureParseOptions {
   /** Only used in messages; the format is told from the content. */
@@ -25,26 +34,11 @@ export interface CaptureParseOptions {
   channels?: WavChannelOption[];
 }
 
-function isBlankText(bytes: Uint8Array): boolean {
-  let p = bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf ? 3 : 0;
-  for (; p < bytes.length; p++) {
-    const b = bytes[p];
-    if (b !== 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d) return false;
-  }
-  return true;
-}
-
 export function parseCapture(bytes: Uint8Array, opts: CaptureParseOptions = {}): Capture {
   const minSamples = opts.minSamples ?? DEFAULT_MIN_SAMPLES;
-  const what = opts.fileName ? `"${opts.fileName}"` : "The file";
-  if (isBlankText(bytes)) throw new CaptureParseError("empty", `${what} is empty.`);
+  if (firstNonBlank(bytes, true) === bytes.length) throw emptyFileError(opts.fileName);
   const format = sniffFormat(bytes);
   if (format === "wav") return parseWav(bytes, { channels: opts.channels, minSamples });
   if (format === "csv") return parseCsv(bytes, { sampleRate: opts.sampleRate, minSamples });
-  const hint = describeForeignFile(bytes);
-  throw new CaptureParseError(
-    "unknown-format",
-    `${what} is neither a CSV table of numbers nor a WAV recording.${hint ? ` ${hint}` : " Upload a .csv or .wav capture."}`,
-    { byte: 0 },
-  );
+  throw foreignFileError(bytes, opts.fileName);
 }

@@ -1,6 +1,11 @@
-// Tells a capture's format from its first bytes, not from its file name.
+// Tells a capture's format from its first bytes, not from its file name, and words the refusal of a file that is
+// blank or neither format.
+
+import { CaptureParseError } from "./errors.ts";
 
 const SAMPLE_BYTES = 4096;
+/** sniffFormat looks at no more than this many bytes (a UTF-8 byte order mark, then 4 KiB). */
+export const SNIFF_BYTES = 3 + SAMPLE_BYTES;
 
 export type CaptureFormat = "csv" | "wav";
 
@@ -66,4 +71,36 @@ export function describeForeignFile(bytes: Uint8Array): string | null {
   if (startsWith(bytes, "\x89HDF")) return "It is an HDF5 file; export the signals as CSV or WAV.";
   if (startsWith(bytes, "fLaC") || startsWith(bytes, "OggS") || startsWith(bytes, "ID3")) return "It is a compressed audio file; export it as WAV.";
   return null;
+}
+
+/**
+ * Offset of the first byte that is not blank (space, tab, CR, LF), or bytes.length. A UTF-8 byte order mark counts
+ * as blank when `bytes` are the start of the file.
+ */
+export function firstNonBlank(bytes: Uint8Array, atFileStart: boolean): number {
+  let p = 0;
+  if (atFileStart && bytes.length >= 3 && bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) p = 3;
+  for (; p < bytes.length; p++) {
+    const b = bytes[p];
+    if (b !== 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d) return p;
+  }
+  return bytes.length;
+}
+
+function whatFile(fileName: string | undefined): string {
+  return fileName ? `"${fileName}"` : "The file";
+}
+
+export function emptyFileError(fileName: string | undefined): CaptureParseError {
+  return new CaptureParseError("empty", `${whatFile(fileName)} is empty.`);
+}
+
+/** Neither CSV nor WAV by content; `head` is the start of the file (a few bytes are enough for the hint). */
+export function foreignFileError(head: Uint8Array, fileName: string | undefined): CaptureParseError {
+  const hint = describeForeignFile(head);
+  return new CaptureParseError(
+    "unknown-format",
+    `${whatFile(fileName)} is neither a CSV table of numbers nor a WAV recording.${hint ? ` ${hint}` : " Upload a .csv or .wav capture."}`,
+    { byte: 0 },
+  );
 }
