@@ -2,7 +2,8 @@
 // Every row is checked on its own; a bad row is reported with its line number and nothing of it is written.
 import type { Knex } from "knex";
 import type { ZodError } from "zod";
-import { createAssetSchema, nameplateChanges, patchAssetSchema, toRow, checkSpeed, type AssetInput } from "./asset-service.ts";
+import { nameplateChanges, toRow } from "./asset-service.ts";
+import { assetBody, assetPatchBody, speedProblem } from "../../src/shared/schemas/assets.ts";
 
 export interface ImportReport {
   created: number;
@@ -172,19 +173,17 @@ export async function importAssets(db: Knex, csv: string): Promise<ImportReport>
         if (!areaRow) [areaRow] = await trx("areas").insert({ site_id: siteId, name: area }).returning("id");
         const input = { ...fieldsOnly, areaId: areaRow.id };
         if (existing) {
-          const parsed = patchAssetSchema.safeParse(input);
+          const parsed = assetPatchBody.safeParse(input);
           if (!parsed.success) throw new RowError(zodMessage(parsed.error));
-          const merged = { ratedRpm: parsed.data.ratedRpm ?? existing.rated_rpm, ratedHz: parsed.data.ratedHz ?? existing.rated_hz, poles: parsed.data.poles ?? existing.poles };
-          const issues: string[] = [];
-          checkSpeed(merged, { addIssue: (i: { message?: string }) => issues.push(`ratedRpm: ${i.message}`) } as never);
-          if (issues.length) throw new RowError(issues.join("; "));
-          const changed = nameplateChanges(existing, parsed.data as Partial<AssetInput>);
+          const speed = speedProblem({ ratedRpm: parsed.data.ratedRpm ?? existing.rated_rpm, ratedHz: parsed.data.ratedHz ?? existing.rated_hz, poles: parsed.data.poles ?? existing.poles });
+          if (speed) throw new RowError(`ratedRpm: ${speed}`);
+          const changed = nameplateChanges(existing, parsed.data);
           await trx("assets")
             .where({ id: existing.id })
-            .update({ ...toRow(parsed.data as Partial<AssetInput>), ...(changed.length ? { nameplate_version: existing.nameplate_version + 1 } : {}), updated_at: trx.fn.now() });
+            .update({ ...toRow(parsed.data), ...(changed.length ? { nameplate_version: existing.nameplate_version + 1 } : {}), updated_at: trx.fn.now() });
           return "updated" as const;
         }
-        const parsed = createAssetSchema.safeParse({ name: tag, ...input });
+        const parsed = assetBody.safeParse({ name: tag, ...input });
         if (!parsed.success) throw new RowError(zodMessage(parsed.error));
         await trx("assets").insert(toRow(parsed.data));
         return "created" as const;

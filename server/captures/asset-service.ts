@@ -1,57 +1,13 @@
 // Motors (assets): list/detail queries with their latest reading, create/update with nameplate versioning,
 // and the asset register's CSV import.
-import { z } from "zod";
 import type { Knex } from "knex";
 import { badRequest } from "../errors.ts";
-import { assetAreaId } from "../../src/shared/schemas/assets.ts";
-import { bearingsBody, type BearingsBody } from "../../src/shared/schemas/bearings.ts";
+import { NAMEPLATE_FIELDS, type AssetBody, type AssetPatchBody } from "../../src/shared/schemas/assets.ts";
+import type { BearingsBody } from "../../src/shared/schemas/bearings.ts";
 
-export const DRIVEN_EQUIPMENT = ["pump", "fan", "compressor", "conveyor", "mixer", "crusher", "blower", "mill", "other"] as const;
-
-const num = z.number().finite();
-const pos = num.positive();
-const optPos = pos.nullable().optional();
-
-/** Every field of a motor as the API spells it. Nameplate fields are the ones the engine reads. */
-export const assetFields = {
-  tag: z.string().trim().min(1, "Give the motor a tag").max(60),
-  name: z.string().trim().min(1, "Give the motor a name").max(200),
-  areaId: assetAreaId,
-  drivenEquipment: z.enum(DRIVEN_EQUIPMENT, { message: `One of: ${DRIVEN_EQUIPMENT.join(", ")}` }).default("pump"),
-  criticality: z.enum(["low", "medium", "high"], { message: "One of: low, medium, high" }).default("medium"),
-  ratedKw: optPos,
-  ratedVoltage: optPos,
-  ratedCurrent: optPos,
-  ratedHz: pos.max(400).default(50),
-  ratedRpm: pos.max(100_000),
-  poles: z.number().int().min(2).max(120).refine((p) => p % 2 === 0, "Poles must be an even number (2, 4, 6, …)"),
-  rotorBars: z.number().int().positive().nullable().optional(),
-  statorSlots: z.number().int().positive().nullable().optional(),
-  designLetter: z.string().trim().max(2).nullable().optional(),
-  efficiencyClass: z.string().trim().max(10).nullable().optional(),
-  efficiencyPct: num.gt(0).max(100).nullable().optional(),
-  powerFactor: num.gt(0).max(1).nullable().optional(),
-  connection: z.enum(["star", "delta"], { message: "star or delta" }).nullable().optional(),
-  driveFed: z.boolean().default(false),
-  machineGroup: z.union([z.literal(1), z.literal(2)], { message: "1 (large) or 2 (medium)" }).default(2),
-  support: z.enum(["rigid", "flexible"], { message: "rigid or flexible" }).default("rigid"),
-  /** Rolling bearings { de, nde } (src/shared/schemas/bearings.ts); versioned with the nameplate. */
-  bearings: bearingsBody.nullable().optional(),
-};
-
-export const createAssetSchema = z.object(assetFields).superRefine(checkSpeed);
-export const patchAssetSchema = z
-  .object(Object.fromEntries(Object.entries(assetFields).map(([k, v]) => [k, (v as z.ZodType).optional()])) as { [K in keyof typeof assetFields]: z.ZodOptional<(typeof assetFields)[K]> })
-  .strict();
-export type AssetInput = z.infer<typeof createAssetSchema>;
-
-/** An induction motor's full-load speed is below synchronous speed 120·f/p. */
-export function checkSpeed(a: { ratedRpm?: number; ratedHz?: number; poles?: number }, ctx: z.RefinementCtx) {
-  if (a.ratedRpm === undefined || a.poles === undefined) return;
-  const sync = (120 * (a.ratedHz ?? 50)) / a.poles;
-  if (a.ratedRpm >= sync)
-    ctx.addIssue({ code: "custom", path: ["ratedRpm"], message: `Full-load speed must be below the synchronous ${Math.round(sync)} rpm of a ${a.poles}-pole motor at ${a.ratedHz ?? 50} Hz` });
-}
+// The request bodies (assetBody, assetPatchBody) and their rules live in src/shared/schemas/assets.ts, shared with the
+// client's forms.
+export type AssetInput = AssetBody | AssetPatchBody;
 
 const COLUMN: Record<string, string> = {
   tag: "tag", name: "name", areaId: "area_id", drivenEquipment: "driven_equipment", criticality: "criticality",
@@ -60,12 +16,8 @@ const COLUMN: Record<string, string> = {
   efficiencyPct: "efficiency_pct", powerFactor: "power_factor", connection: "connection", driveFed: "drive_fed",
   machineGroup: "machine_group", support: "support",
 };
-/** Changing any of these changes what the engine computes: the nameplate version goes up. */
-export const NAMEPLATE_FIELDS = [
-  "ratedKw", "ratedVoltage", "ratedCurrent", "ratedHz", "ratedRpm", "poles", "rotorBars", "statorSlots", "designLetter",
-  "efficiencyClass", "efficiencyPct", "powerFactor", "connection", "driveFed", "machineGroup", "support",
-] as const;
 
+/** A parsed body → the assets row's columns (fields left out are not touched). */
 export function toRow(input: Partial<AssetInput>): Record<string, unknown> {
   const row: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(input)) if (v !== undefined && COLUMN[k]) row[COLUMN[k]] = v;

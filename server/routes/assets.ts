@@ -6,33 +6,14 @@ import { guardedRouter } from "../http.ts";
 import { badRequest, conflict, HttpError, notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
 import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
-import {
-  applyGradeFilter,
-  ASSET_SORT,
-  assetBase,
-  assetOut,
-  assetSelect,
-  createAssetSchema,
-  checkSpeed,
-  loadAsset,
-  nameplateChanges,
-  patchAssetSchema,
-  pointOut,
-  toRow,
-} from "../captures/asset-service.ts";
+import { applyGradeFilter, ASSET_SORT, assetBase, assetOut, assetSelect, loadAsset, nameplateChanges, pointOut, toRow } from "../captures/asset-service.ts";
+import { assetBody, assetPatchBody, speedProblem } from "../../src/shared/schemas/assets.ts";
+import { DEFAULT_POINT_UNIT, pointBody, pointPatchBody, type PointPatchBody } from "../../src/shared/schemas/points.ts";
 import { importAssets } from "../captures/asset-import.ts";
 import { requeueAnalyses } from "../captures/ingest.ts";
 import { motorModelOf } from "../captures/motor-model.ts";
 
-const pointSchema = z.object({
-  name: z.string().trim().min(1, "Give the point a name").max(100),
-  kind: z.enum(["current", "vibration", "voltage"], { message: "current, vibration or voltage" }),
-  position: z.string().trim().max(10).nullable().optional(),
-  ctRatio: z.number().positive().finite().nullable().optional(),
-  sensitivity: z.number().positive().finite().nullable().optional(),
-  unit: z.string().trim().min(1).max(10).optional(),
-});
-const pointRow = (p: Partial<z.infer<typeof pointSchema>>) => {
+const pointRow = (p: PointPatchBody) => {
   const row: Record<string, unknown> = {};
   if (p.name !== undefined) row.name = p.name;
   if (p.kind !== undefined) row.kind = p.kind;
@@ -42,7 +23,6 @@ const pointRow = (p: Partial<z.infer<typeof pointSchema>>) => {
   if (p.unit !== undefined) row.unit = p.unit;
   return row;
 };
-const DEFAULT_UNIT: Record<string, string> = { current: "A", vibration: "mm/s", voltage: "V" };
 
 const isoDate = z
   .string()
@@ -91,32 +71,31 @@ export function assetRoutes(ctx: AppContext) {
   r.get("/assets/:id", "fleet.read", async (req, res) => {
     const asset = await mustAsset(idParam(req.params.id, "motor"));
     const points = await db("measurement_points").where({ asset_id: asset.id }).orderBy("id");
-    res.json({ ...asset, measurementPoints: points.map(pointOut) });
+    // How many captures it has, and how many of them keep their recording (what a re-analysis takes).
+    const [counts] = await db("captures").where({ asset_id: asset.id }).select(db.raw("count(*)::int as total"), db.raw("count(blob_key)::int as stored"));
+    res.json({ ...asset, measurementPoints: points.map(pointOut), captureCount: counts.total, storedCaptureCount: counts.stored });
   });
 
   r.post("/assets", "assets.write", async (req, res) => {
-    const body = parseOr400(createAssetSchema, req.body, "Invalid motor");
+    const body = parseOr400(assetBody, req.body, "Invalid motor");
     await checkArea(body.areaId);
     try {
       const [row] = await db("assets").insert(toRow(body)).returning("id");
       await audit(db, { actor: req.user, action: "asset.created", subjectType: "asset", subjectId: row.id, details: { tag: body.tag }, ip: req.ip });
       res.status(201).json(await loadAsset(db, row.id));
     } catch (err) {
-      if (isUnique(err)) throw new HttpError(409, `A motor with tag ${body.tag} already exists.`, { tag: "This tag is taken" }, "conflict");
+      if (isUnique(err)) throw new HttpError(409, `A motor with tag ${body.tag} already exists.`, { tag: "Another motor already has this tag" }, "conflict");
       throw err;
     }
   });
 
   r.patch("/assets/:id", "assets.write", async (req, res) => {
     const id = idParam(req.params.id, "motor");
-    const body = parseOr400(patchAssetSchema, req.body, "Invalid motor");
+    const body = parseOr400(assetPatchBody, req.body, "Invalid motor");
     const row = await db("assets").where({ id }).first();
     if (!row) throw notFound("No such motor.");
-    const issues: Record<string, string> = {};
-    checkSpeed({ ratedRpm: body.ratedRpm ?? row.rated_rpm, ratedHz: body.ratedHz ?? row.rated_hz, poles: body.poles ?? row.poles }, {
-      addIssue: (i: { message?: string }) => (issues.ratedRpm = i.message ?? "Invalid"),
-    } as never);
-    if (Object.keys(issues).length) throw badRequest("Invalid motor", issues);
+    const speed = speedProblem({ ratedRpm: body.ratedRpm ?? row.rated_rpm, ratedHz: body.ratedHz ?? row.rated_hz, poles: body.poles ?? row.poles });
+    if (speed) throw badRequest("Invalid motor", { ratedRpm: speed });
     await checkArea(body.areaId);
     const changed = nameplateChanges(row, body);
     try {
@@ -124,7 +103,7 @@ export function assetRoutes(ctx: AppContext) {
         .where({ id })
         .update({ ...toRow(body), ...(changed.length ? { nameplate_version: row.nameplate_version + 1 } : {}), updated_at: db.fn.now() });
     } catch (err) {
-      if (isUnique(err)) throw new HttpError(409, `A motor with tag ${body.tag} already exists.`, { tag: "This tag is taken" }, "conflict");
+      if (isUnique(err)) throw new HttpError(409, `A motor with tag ${body.tag} already exists.`, { tag: "Another motor already has this tag" }, "conflict");
       throw err;
     }
     await audit(db, { actor: req.user, action: "asset.updated", subjectType: "asset", subjectId: id, details: { fields: Object.keys(body), nameplateChanged: changed }, ip: req.ip });
@@ -136,12 +115,15 @@ export function assetRoutes(ctx: AppContext) {
     const id = idParam(req.params.id, "motor");
     const row = await db("assets").where({ id }).first();
     if (!row) throw notFound("No such motor.");
-    const caps = await db("captures").where({ asset_id: id }).count<{ count: string }[]>({ count: "*" });
-    if (Number(caps[0].count) > 0) throw conflict(`Motor ${row.tag} has ${caps[0].count} capture(s); its history is kept, so it cannot be deleted.`);
+    // The register keeps a motor with history; the way out is to move it or leave it.
+    const wayOut = "Move it to another area, or leave it in the register.";
+    const [{ count }] = await db("captures").where({ asset_id: id }).count<{ count: string }[]>({ count: "*" });
+    const n = Number(count);
+    if (n > 0) throw conflict(`Motor ${row.tag} was not deleted: it has ${n} capture${n === 1 ? "" : "s"}, and the register keeps a motor with its history. ${wayOut}`);
     try {
       await db("assets").where({ id }).delete();
     } catch (err) {
-      if (isForeignKey(err)) throw conflict(`Motor ${row.tag} is still referenced (inspections or streams) and cannot be deleted.`);
+      if (isForeignKey(err)) throw conflict(`Motor ${row.tag} was not deleted: inspections or gateway streams refer to it, and the register keeps a motor with its history. ${wayOut}`);
       throw err;
     }
     await audit(db, { actor: req.user, action: "asset.deleted", subjectType: "asset", subjectId: id, details: { tag: row.tag }, ip: req.ip });
@@ -168,26 +150,26 @@ export function assetRoutes(ctx: AppContext) {
 
   r.post("/assets/:id/points", "assets.write", async (req, res) => {
     const assetId = idParam(req.params.id, "motor");
-    const body = parseOr400(pointSchema, req.body, "Invalid measurement point");
+    const body = parseOr400(pointBody, req.body, "Invalid measurement point");
     if (!(await db("assets").where({ id: assetId }).first())) throw notFound("No such motor.");
     try {
-      const [p] = await db("measurement_points").insert({ asset_id: assetId, ...pointRow(body), unit: body.unit ?? DEFAULT_UNIT[body.kind] }).returning("*");
+      const [p] = await db("measurement_points").insert({ asset_id: assetId, ...pointRow(body), unit: body.unit ?? DEFAULT_POINT_UNIT[body.kind] }).returning("*");
       res.status(201).json(pointOut(p));
     } catch (err) {
-      if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "Taken" }, "conflict");
+      if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "This motor already has a point with this name" }, "conflict");
       throw err;
     }
   });
 
   r.patch("/points/:id", "assets.write", async (req, res) => {
     const id = idParam(req.params.id, "measurement point");
-    const body = parseOr400(pointSchema.partial().strict(), req.body, "Invalid measurement point");
+    const body = parseOr400(pointPatchBody, req.body, "Invalid measurement point");
     if (!(await db("measurement_points").where({ id }).first())) throw notFound("No such measurement point.");
     try {
       const row = pointRow(body);
       if (Object.keys(row).length) await db("measurement_points").where({ id }).update(row);
     } catch (err) {
-      if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "Taken" }, "conflict");
+      if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "This motor already has a point with this name" }, "conflict");
       throw err;
     }
     res.json(pointOut(await db("measurement_points").where({ id }).first()));

@@ -47,6 +47,18 @@ const width = (className: string) => (/(^|\s)(w-|min-w-|max-w-)/.test(className)
 export function TextInput({ className = "", ...p }: InputHTMLAttributes<HTMLInputElement>) {
   return <input className={`${CONTROL} ${width(className)} ${className}`} {...p} />;
 }
+/** A number input with its unit beside it (the unit is also read out with the value: put it in the label too). */
+export function UnitInput({ unit, className = "", ...p }: InputHTMLAttributes<HTMLInputElement> & { unit?: string }) {
+  if (!unit) return <TextInput inputMode="decimal" className={`num ${className}`} {...p} />;
+  return (
+    <div className={`flex items-stretch ${width(className)} ${className}`}>
+      <input inputMode="decimal" className={`${CONTROL} num min-w-0 flex-1 rounded-r-none`} {...p} />
+      <span aria-hidden="true" className="num inline-flex shrink-0 items-center rounded-r-md border border-l-0 border-line-strong bg-sunken px-2 text-caption text-ink-muted">
+        {unit}
+      </span>
+    </div>
+  );
+}
 export function Select({ className = "", ...p }: SelectHTMLAttributes<HTMLSelectElement>) {
   return <select className={`${CONTROL} ${width(className)} ${className}`} {...p} />;
 }

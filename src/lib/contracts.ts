@@ -100,6 +100,9 @@ export interface MeasurementPoint {
 }
 export interface AssetDetail extends Asset {
   measurementPoints: MeasurementPoint[];
+  /** Captures of the motor, and how many of them keep their recording (what a re-analysis takes). */
+  captureCount: number;
+  storedCaptureCount: number;
 }
 
 export type CaptureStatus = "received" | "queued" | "analysing" | "analysed" | "failed";

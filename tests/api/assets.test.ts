@@ -251,6 +251,66 @@ describe("assets", () => {
     expect(model.body.sources.rotorLockedR2).toBe("nameplate-estimate");
   });
 
+  it("an edit changes only the fields sent: a 60 Hz motor renamed, moved or given bearings keeps the rest of its nameplate", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const made = await admin.post("/api/assets").send(
+      motor({ tag: `P-${sfx}-60`, ratedHz: 60, ratedRpm: 1780, drivenEquipment: "compressor", criticality: "low", driveFed: true, machineGroup: 1, support: "flexible", designLetter: "c" }),
+    );
+    expect(made.status).toBe(201);
+    const kept = { ratedHz: 60, ratedRpm: 1780, drivenEquipment: "compressor", criticality: "low", driveFed: true, machineGroup: 1, support: "flexible", designLetter: "C", nameplateVersion: 1 };
+    expect(made.body).toMatchObject(kept);
+    const id = made.body.id;
+    const renamed = await admin.patch(`/api/assets/${id}`).send({ name: "Air compressor 60" });
+    expect(renamed.status).toBe(200);
+    expect(renamed.body).toMatchObject({ ...kept, name: "Air compressor 60" });
+    expect((await admin.patch(`/api/assets/${id}`).send({ areaId })).body).toMatchObject(kept);
+    expect((await admin.patch(`/api/assets/${id}`).send({ bearings: { de: { designation: "6314 C3" } } })).body).toMatchObject({ ...kept, nameplateVersion: 2 });
+    // The speed rule takes the stored poles and frequency: 1780 rpm is fine at 60 Hz, 1810 is not.
+    const fast = await admin.patch(`/api/assets/${id}`).send({ ratedRpm: 1810 });
+    expect(fast.status).toBe(400);
+    expect(fast.body.fields).toEqual({ ratedRpm: "Full-load speed must be below the synchronous 1800 rpm of a 4-pole motor at 60 Hz" });
+    // A field sent as null is cleared; a design letter outside NEMA A–D is refused with the field's message.
+    expect((await admin.patch(`/api/assets/${id}`).send({ ratedCurrent: null })).body).toMatchObject({ ratedCurrent: null, nameplateVersion: 3 });
+    const letter = await admin.patch(`/api/assets/${id}`).send({ designLetter: "N", powerFactor: 1.3 });
+    expect(letter.body.fields).toEqual({ designLetter: "NEMA design letter A, B, C or D", powerFactor: "The power factor is above 0 and at most 1 (e.g. 0.86)" });
+    expect(await env.db("assets").where({ id }).first()).toMatchObject({ rated_hz: 60, design_letter: "C", power_factor: null, nameplate_version: 3, criticality: "low" });
+    const taken = await admin.patch(`/api/assets/${id}`).send({ tag: `P-${sfx}-1` });
+    expect(taken.status).toBe(409);
+    expect(taken.body.fields).toEqual({ tag: "Another motor already has this tag" });
+    expect((await admin.delete(`/api/assets/${id}`)).status).toBe(204);
+  });
+
+  it("the detail counts the motor's captures and stored recordings; a motor with captures is kept (409 says what to do instead)", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const made = await admin.post("/api/assets").send(motor({ tag: `P-${sfx}-h` }));
+    const id = made.body.id;
+    expect((await admin.get(`/api/assets/${id}`)).body).toMatchObject({ captureCount: 0, storedCaptureCount: 0 });
+    const point = await admin.post(`/api/assets/${id}/points`).send({ name: "Phase A current", kind: "current", position: "A" });
+    const dup = await admin.post(`/api/assets/${id}/points`).send({ name: "Phase A current", kind: "vibration" });
+    expect(dup.status).toBe(409);
+    expect(dup.body.fields).toEqual({ name: "This motor already has a point with this name" });
+    const bad = await admin.patch(`/api/points/${point.body.id}`).send({ ctRatio: 0, kind: "pressure" });
+    expect(bad.body.fields).toEqual({ ctRatio: "The CT ratio must be above 0", kind: "current, vibration or voltage" });
+    const capture = { asset_id: id, taken_at: new Date(), source: "upload", status: "analysed" };
+    await env.db("captures").insert([
+      { ...capture, blob_key: `captures/test/${sfx}/1.wav`, measurement_point_id: point.body.id },
+      { ...capture, blob_key: null },
+    ]);
+    expect((await admin.get(`/api/assets/${id}`)).body).toMatchObject({ captureCount: 2, storedCaptureCount: 1 });
+    const refused = await admin.delete(`/api/assets/${id}`);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error).toBe(
+      `Motor P-${sfx}-h was not deleted: it has 2 captures, and the register keeps a motor with its history. Move it to another area, or leave it in the register.`,
+    );
+    expect(await env.db("assets").where({ id }).first()).toBeTruthy();
+    expect(await env.db("measurement_points").where({ asset_id: id })).toHaveLength(1);
+    // Deleting the point keeps the capture, unlinked.
+    expect((await admin.delete(`/api/points/${point.body.id}`)).status).toBe(204);
+    expect((await env.db("captures").where({ asset_id: id }).select("measurement_point_id")).map((c) => c.measurement_point_id)).toEqual([null, null]);
+    await env.db("captures").where({ asset_id: id }).delete();
+    expect((await admin.delete(`/api/assets/${id}`)).status).toBe(204);
+  });
+
   it("lists with server-side filters, sort and paging; unknown sort column is a 400", async () => {
     const admin = await signedIn(env.app, "admin");
     for (let i = 2; i <= 5; i++)

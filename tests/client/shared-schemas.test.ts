@@ -12,9 +12,11 @@ import { completeSchema, scheduleSchema, todayIso } from "../../src/lib/inspecti
 import { forgotBody, loginBody, setPasswordBody } from "../../src/shared/schemas/auth.ts";
 import { inviteBody } from "../../src/shared/schemas/users.ts";
 import { areaBody, siteBody, sitePatchBody } from "../../src/shared/schemas/sites.ts";
-import { moveMotorBody } from "../../src/shared/schemas/assets.ts";
+import { assetBody, assetFields, assetPatchBody, moveMotorBody } from "../../src/shared/schemas/assets.ts";
+import { pointBody, pointPatchBody } from "../../src/shared/schemas/points.ts";
+import { motorFormSchema, motorFormValues } from "../../src/lib/motor-form.ts";
+import { pointFormSchema } from "../../src/features/motor/lib/point-form.ts";
 import { moveMotorSchema } from "../../src/features/motor/api/move-motor.ts";
-import { assetFields } from "../../server/captures/asset-service.ts";
 import { gatewayBody } from "../../src/shared/schemas/gateways.ts";
 import { completeBody, earliestToday, inspectionPatchBody, isPastDueDate, scheduleBody } from "../../src/shared/schemas/inspections.ts";
 import { verdictBody } from "../../src/shared/schemas/findings.ts";
@@ -127,6 +129,57 @@ describe("forms and API share their request schemas", () => {
     expect(moveMotorSchema.safeParse({ areaId: "" }).error?.issues[0].message).toBe("Choose an area");
     // The full motor body takes the same rule, so a move is refused on the same words.
     expect(assetFields.areaId.safeParse(undefined).error?.issues[0].message).toBe("Choose an area");
+  });
+
+  it("add or edit a motor: the register's and the motor page's form and POST/PATCH /assets share the nameplate rules", () => {
+    const form = {
+      ...motorFormValues(null),
+      tag: "TWT-HLP-P09", name: "High-lift pump 9", siteId: "3", areaId: "12", criticality: "high",
+      ratedKw: "75", ratedVoltage: "400", ratedCurrent: "132", ratedHz: "50", ratedRpm: "1482", poles: "4", rotorBars: "40",
+      designLetter: "b", efficiencyPct: "95,4", powerFactor: "0.86", connection: "delta", driveFed: true,
+    };
+    const body = {
+      tag: "TWT-HLP-P09", name: "High-lift pump 9", areaId: 12, drivenEquipment: "pump", criticality: "high",
+      ratedKw: 75, ratedVoltage: 400, ratedCurrent: 132, ratedHz: 50, ratedRpm: 1482, poles: 4, rotorBars: 40,
+      designLetter: "b", efficiencyPct: 95.4, powerFactor: 0.86, connection: "delta", driveFed: true, machineGroup: 2, support: "rigid",
+    };
+    same(motorFormSchema, assetBody, [
+      { form, body, ok: true },
+      // poles 3, a speed at synchronous, a power factor above 1, an unknown design letter
+      { form: { ...form, poles: "3" }, body: { ...body, poles: 3 }, ok: false },
+      { form: { ...form, ratedRpm: "1500" }, body: { ...body, ratedRpm: 1500 }, ok: false },
+      { form: { ...form, powerFactor: "1.2", designLetter: "N" }, body: { ...body, powerFactor: 1.2, designLetter: "N" }, ok: false },
+      { form: { ...form, tag: " ", areaId: "", ratedRpm: "", poles: "" }, body: { ...body, tag: " ", areaId: undefined, ratedRpm: undefined, poles: undefined }, ok: false },
+      { form: { ...form, ratedKw: "lots", rotorBars: "40.5", ratedHz: "0" }, body: { ...body, ratedKw: "lots", rotorBars: 40.5, ratedHz: 0 }, ok: false },
+      // optional nameplate fields left empty are not given
+      { form: { ...form, ratedKw: "", ratedCurrent: "", designLetter: "", connection: "" }, body: { ...body, ratedKw: undefined, ratedCurrent: undefined, designLetter: undefined, connection: undefined }, ok: true },
+    ]);
+    // The words under the field are the server's.
+    const err = (f: Record<string, unknown>) => Object.fromEntries((motorFormSchema.safeParse(f).error?.issues ?? []).map((i) => [i.path.join("."), i.message]));
+    expect(err({ ...form, poles: "3" })).toEqual({ poles: "Poles must be an even number (2, 4, 6, …)" });
+    expect(err({ ...form, ratedRpm: "1500" })).toEqual({ ratedRpm: "Full-load speed must be below the synchronous 1500 rpm of a 4-pole motor at 50 Hz" });
+    expect(err({ ...form, ratedRpm: "" }).ratedRpm).toBe("Give the full-load speed in rpm, as on the nameplate");
+    expect(motorFormSchema.parse(form).designLetter).toBe("B");
+    // An edit sends only what changed, with the same field rules; a field left out is not reset to a default.
+    expect(assetPatchBody.parse({ name: "Pump 9" })).toEqual({ name: "Pump 9" });
+    expect(assetPatchBody.parse({ ratedKw: null, connection: null })).toEqual({ ratedKw: null, connection: null });
+    expect(outcome(assetPatchBody, { poles: 5, machineGroup: 3, support: "soft" })).toEqual({ ok: false, paths: ["machineGroup", "poles", "support"] });
+  });
+
+  it("add or edit a measurement point: the motor page's form and POST /assets/:id/points, PATCH /points/:id", () => {
+    const form = { name: "Phase A current", kind: "current", position: "A", ctRatio: "100", sensitivity: "", unit: "A" };
+    const body = { name: "Phase A current", kind: "current", position: "A", ctRatio: 100, unit: "A" };
+    same(pointFormSchema, pointBody, [
+      { form, body, ok: true },
+      { form: { ...form, name: "", kind: "pressure" }, body: { ...body, name: "", kind: "pressure" }, ok: false },
+      { form: { ...form, ctRatio: "0" }, body: { ...body, ctRatio: 0 }, ok: false },
+      { form: { ...form, ctRatio: "1:100" }, body: { ...body, ctRatio: "1:100" }, ok: false },
+      { form: { ...form, kind: "vibration", position: "H", ctRatio: "", sensitivity: "-5", unit: "m/s2" }, body: { ...body, kind: "vibration", position: "H", ctRatio: undefined, sensitivity: -5, unit: "m/s2" }, ok: false },
+      { form: { ...form, position: "", unit: "" }, body: { ...body, position: undefined, unit: undefined }, ok: true },
+    ]);
+    // What the form sends an edit takes too.
+    expect(outcome(pointPatchBody, pointFormSchema.parse(form))).toEqual({ ok: true, paths: [] });
+    expect(pointFormSchema.safeParse({ ...form, ctRatio: "0" }).error?.issues[0].message).toBe("The CT ratio must be above 0");
   });
 
   it("verdict: the same rules, and the form alone asks for a note when dismissing or asking for a re-measure", () => {

@@ -1,6 +1,6 @@
 // One motor (/motors/:id): nameplate and measurement points, the current grade and why, trends with grade
 // boundaries and the sideband projection, capture history, findings and inspections, and the motor-model curves.
-import { useState, type ReactNode } from "react";
+import { useEffect, useState, type ReactNode } from "react";
 import { Link, useParams } from "react-router-dom";
 import { Alert, ErrorNote } from "../../components/Alert.tsx";
 import { DataTable, type Column } from "../../components/DataTable.tsx";
@@ -17,6 +17,10 @@ import { LoadComparison, ModelCurves } from "./components/ModelCurves.tsx";
 import { ProjectionNote, Trends } from "./components/Trends.tsx";
 import { MoveMotorButton } from "./components/MoveMotor.tsx";
 import { Bearings } from "./components/Bearings.tsx";
+import { EditMotorButton } from "./components/EditMotor.tsx";
+import { DeleteMotorButton } from "./components/DeleteMotor.tsx";
+import { MeasurementPoints } from "./components/MeasurementPoints.tsx";
+import { Button } from "../../components/Button.tsx";
 import { useSession } from "../../lib/session.ts";
 
 export default function MotorPage() {
@@ -25,6 +29,9 @@ export default function MotorPage() {
   const trend = useTrend(id);
   const model = useMotorModel(id);
   const { can } = useSession();
+  // What the last admin action on this page came to: an edit saved (and captures queued), a deletion refused.
+  const [notice, setNotice] = useState<{ tone: "success" | "error"; text: string } | null>(null);
+  useEffect(() => setNotice(null), [id]);
   const m = motor.data;
   if (motor.isPending) return <PageLoading />;
   if (motor.isError || !m)
@@ -39,7 +46,15 @@ export default function MotorPage() {
     <Page
       wide
       title={`${m.tag} · ${m.name}`}
-      actions={can("assets.write") ? <MoveMotorButton motor={m} /> : undefined}
+      actions={
+        can("assets.write") ? (
+          <>
+            <EditMotorButton motor={m} onSaved={(text) => setNotice({ tone: "success", text })} />
+            <MoveMotorButton motor={m} />
+            <DeleteMotorButton motor={m} onRefused={(text) => setNotice({ tone: "error", text })} />
+          </>
+        ) : undefined
+      }
       eyebrow={
         <>
           <Link to="/motors">Motors</Link> · {m.siteName} · {m.areaName}
@@ -52,6 +67,18 @@ export default function MotorPage() {
         </>
       }
     >
+      {notice && (
+        <div className="mb-4" data-testid="motor-notice">
+          <Alert tone={notice.tone}>
+            <div className="flex items-start justify-between gap-3">
+              <p>{notice.text}</p>
+              <Button size="sm" variant="ghost" onClick={() => setNotice(null)}>
+                Dismiss
+              </Button>
+            </div>
+          </Alert>
+        </div>
+      )}
       <div className="grid gap-4 xl:grid-cols-[minmax(0,1fr)_26rem]">
         <div className="flex min-w-0 flex-col gap-4">
           <CurrentState m={m} />
@@ -96,26 +123,7 @@ export default function MotorPage() {
             <Bearings m={m} canEdit={can("assets.write")} />
           </Section>
           <Section title="Measurement points">
-            {m.measurementPoints.length === 0 ? (
-              <p className="text-ink-muted">None recorded.</p>
-            ) : (
-              <ul className="flex flex-col divide-y divide-line">
-                {m.measurementPoints.map((p) => (
-                  <li key={p.id} className="flex items-baseline justify-between gap-2 py-1.5">
-                    <span>
-                      <span className="font-medium">{p.name}</span>
-                      <span className="ml-2 text-caption text-ink-muted">
-                        {p.kind === "current" ? "current (CT)" : p.kind === "vibration" ? "vibration" : p.kind}
-                        {p.position && <> · {p.kind === "current" ? "phase" : "axis"} {p.position}</>}
-                      </span>
-                    </span>
-                    <span className="num text-caption text-ink-muted">
-                      {p.ctRatio ? `CT ${p.ctRatio}:1` : p.sensitivity ? `${p.sensitivity} mV/${p.unit ?? "unit"}` : (p.unit ?? "")}
-                    </span>
-                  </li>
-                ))}
-              </ul>
-            )}
+            <MeasurementPoints m={m} canEdit={can("assets.write")} />
           </Section>
           <Findings assetId={m.id} />
           <Inspections assetId={m.id} />

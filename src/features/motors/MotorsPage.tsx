@@ -12,14 +12,16 @@ import { formatDate } from "../../lib/format.ts";
 import { GRADES } from "../../lib/grades.ts";
 import { useAssets } from "./api/get-assets.ts";
 import { useSites } from "../../lib/sites.ts";
-
-const EQUIPMENT = ["pump", "fan", "compressor", "conveyor", "mixer", "crusher", "blower", "mill", "other"];
+import { useSession } from "../../lib/session.ts";
+import { DRIVEN_EQUIPMENT } from "../../shared/schemas/assets.ts";
+import { AddMotorButton } from "./AddMotor.tsx";
 
 export default function MotorsPage() {
   const list = useListParams({ pageSize: 25, sort: "tag", filters: ["siteId", "areaId", "grade", "drivenEquipment", "q"] });
   const sites = useSites();
   const assets = useAssets(list.query);
   const navigate = useNavigate();
+  const { can } = useSession();
   const [text, setText] = useState(list.filters.q);
   useEffect(() => {
     const t = setTimeout(() => text !== list.filters.q && list.setFilter("q", text), 300);
@@ -58,7 +60,12 @@ export default function MotorsPage() {
   ];
 
   return (
-    <Page wide title="Motors" description="The register of every motor Barhound watches. Click a row for the motor's page.">
+    <Page
+      wide
+      title="Motors"
+      description="The register of every motor Barhound watches. Click a row for the motor's page."
+      actions={can("assets.write") ? <AddMotorButton place={{ siteId: list.filters.siteId, areaId: list.filters.areaId }} /> : undefined}
+    >
       <DataTable
         caption="Motors"
         columns={columns}
@@ -120,7 +127,7 @@ export default function MotorsPage() {
             <Filter label="Driven equipment">
               <Select value={list.filters.drivenEquipment} onChange={(e) => list.setFilter("drivenEquipment", e.target.value)}>
                 <option value="">Any</option>
-                {EQUIPMENT.map((e) => (
+                {DRIVEN_EQUIPMENT.map((e) => (
                   <option key={e} value={e}>
                     {e}
                   </option>
