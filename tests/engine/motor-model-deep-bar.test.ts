@@ -17,6 +17,7 @@ import {
   type NameplateForModel,
 } from "../../src/engine/motor-model/index.ts";
 import { deepBarWeights, rotorAtSlip, skinEffectFactors } from "../../src/engine/motor-model/circuit.ts";
+import { torqueSlipProperties } from "../helpers/torque-properties.ts";
 
 const within = (actual: number, expected: number, relTol: number) =>
   expect(Math.abs(actual - expected) / Math.abs(expected), `${actual} vs ${expected} (±${relTol * 100} %)`).toBeLessThanOrEqual(relTol);
@@ -150,25 +151,9 @@ const deepCircuit = fc
     ...rest,
     params: { r1, x1, r2, x2, xm, rc, rotorLockedR2: kR * r2, rotorLockedX2: kX * x2 },
   }));
-const motoringSlip = fc.double({ min: 1e-6, max: 1, noNaN: true });
 
 describe("properties of the deep-bar circuit (fast-check)", () => {
-  it("induced torque is zero at synchronous speed", () => {
-    fc.assert(fc.property(deepCircuit, (input) => evaluateAtSlip(input, 0).inducedTorqueNm === 0));
-  });
-
-  it("induced torque is positive for 0 < s ≤ 1 (motoring)", () => {
-    fc.assert(fc.property(deepCircuit, motoringSlip, (input, s) => evaluateAtSlip(input, s).inducedTorqueNm > 0));
-  });
-
-  it("torque is largest at the numerically found breakdown slip", () => {
-    fc.assert(
-      fc.property(deepCircuit, motoringSlip, (input, s) => {
-        const sb = breakdownSlip(input);
-        return evaluateAtSlip(input, s).inducedTorqueNm <= evaluateAtSlip(input, sb).inducedTorqueNm * (1 + 1e-9);
-      }),
-    );
-  });
+  torqueSlipProperties(deepCircuit);
 
   it("pull-up lies between standstill and breakdown and is no higher than the starting or breakdown torque", () => {
     fc.assert(

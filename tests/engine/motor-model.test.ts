@@ -20,6 +20,7 @@ import {
 // The standard speed formulas are the engine's shared ones; the motor model uses them.
 import { rpmFromSlip, slipFromRpm, syncRpm } from "../../src/engine/formulas.ts";
 import { bisect, brentRoot } from "../../src/engine/motor-model/search.ts";
+import { motoringSlip, torqueSlipProperties } from "../helpers/torque-properties.ts";
 
 /** Chapman Ex. 7-5 inputs: 460 V, 25 hp, 60 Hz, 4-pole, Y; rotational losses 1100 W (core loss lumped in). */
 const chapman: MotorModelInput = {
@@ -263,25 +264,9 @@ const circuit = fc.record({
   }),
   rotationalLossW: fc.double({ min: 0, max: 2000, noNaN: true }),
 });
-const motoringSlip = fc.double({ min: 1e-6, max: 1, noNaN: true });
 
 describe("properties of the exact circuit (fast-check)", () => {
-  it("induced torque is zero at synchronous speed", () => {
-    fc.assert(fc.property(circuit, (input) => evaluateAtSlip(input, 0).inducedTorqueNm === 0));
-  });
-
-  it("induced torque is positive for 0 < s ≤ 1 (motoring)", () => {
-    fc.assert(fc.property(circuit, motoringSlip, (input, s) => evaluateAtSlip(input, s).inducedTorqueNm > 0));
-  });
-
-  it("torque is largest at the numerically found breakdown slip", () => {
-    fc.assert(
-      fc.property(circuit, motoringSlip, (input, s) => {
-        const sb = breakdownSlip(input);
-        return evaluateAtSlip(input, s).inducedTorqueNm <= evaluateAtSlip(input, sb).inducedTorqueNm * (1 + 1e-9);
-      }),
-    );
-  });
+  torqueSlipProperties(circuit);
 
   it("the breakdown slip matches the exact Thevenin s_max whenever s_max < 1", () => {
     fc.assert(
