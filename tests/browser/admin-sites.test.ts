@@ -5,7 +5,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import type { Locator } from "playwright-core";
-import { startHarness, type Harness } from "./harness.ts";
+import { startHarness, type Harness, confirmAnd as answerConfirm } from "./harness.ts";
 
 let h: Harness;
 let db: Knex;
@@ -34,17 +34,7 @@ afterAll(async () => {
 });
 
 const card = (name: string): Locator => h.page.locator("section").filter({ has: h.page.getByRole("heading", { name }) });
-/** Click a button that opens the browser's confirmation, answer it, and hand back what it asked. */
-async function confirmAnd(answer: "accept" | "dismiss", button: Locator): Promise<string> {
-  const asked = new Promise<string>((resolve) =>
-    h.page.once("dialog", (d) => {
-      resolve(d.message());
-      void (answer === "accept" ? d.accept() : d.dismiss());
-    }),
-  );
-  await button.click();
-  return asked;
-}
+const confirmAnd = (answer: "accept" | "dismiss", button: Locator) => answerConfirm(h.page, answer, button);
 
 describe("admin deletes sites and areas", () => {
   it("asks before deleting an area: cancel keeps it, OK deletes it and the list refreshes", async () => {

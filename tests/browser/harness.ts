@@ -4,7 +4,7 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { inject } from "vitest";
-import { chromium, type BrowserContext, type Page } from "playwright-core";
+import { chromium, type BrowserContext, type Locator, type Page } from "playwright-core";
 import { startServer, type RunningServer } from "../../server/index.ts";
 import { loadConfig } from "../../server/config.ts";
 import { seedDemoUsers, DEMO_USERS, DEMO_PASSWORD } from "../../server/seed/demo-users.ts";
@@ -104,4 +104,16 @@ export async function navLabels(page: Page): Promise<string[]> {
   const nav = page.getByRole("navigation", { name: "Main" });
   await nav.getByRole("link").first().waitFor();
   return (await nav.getByRole("link").allInnerTexts()).map((t) => t.trim());
+}
+
+/** Click a button that opens the browser's confirmation (window.confirm), answer it, and hand back what it asked. */
+export async function confirmAnd(page: Page, answer: "accept" | "dismiss", button: Locator): Promise<string> {
+  const asked = new Promise<string>((resolve) =>
+    page.once("dialog", (d) => {
+      resolve(d.message());
+      void (answer === "accept" ? d.accept() : d.dismiss());
+    }),
+  );
+  await button.click();
+  return asked;
 }

@@ -6,7 +6,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import type { Locator } from "playwright-core";
-import { startHarness, type Harness } from "./harness.ts";
+import { startHarness, type Harness, confirmAnd as answerConfirm } from "./harness.ts";
 import { ANALYSIS_QUEUE, PGBOSS_SCHEMA } from "../../server/queue.ts";
 
 let h: Harness;
@@ -43,17 +43,7 @@ afterAll(async () => {
   await h?.close();
 });
 
-/** Click a button that opens the browser's confirmation, answer it, and hand back what it asked. */
-async function confirmAnd(answer: "accept" | "dismiss", button: Locator): Promise<string> {
-  const asked = new Promise<string>((resolve) =>
-    h.page.once("dialog", (d) => {
-      resolve(d.message());
-      void (answer === "accept" ? d.accept() : d.dismiss());
-    }),
-  );
-  await button.click();
-  return asked;
-}
+const confirmAnd = (answer: "accept" | "dismiss", button: Locator) => answerConfirm(h.page, answer, button);
 const dialog = () => h.page.getByRole("dialog");
 
 describe("admin edits motors and their measurement points", () => {
