@@ -363,8 +363,10 @@ function Readout(props: {
 }) {
   const { title, r, unit, hzDigits, isCurrent, fr, faint } = props;
   return (
-    <div className={`flex flex-wrap items-baseline gap-x-4 text-body ${faint ? "text-ink-muted" : ""}`} aria-live={faint ? undefined : "polite"}>
-      <span className="w-14 text-caption font-semibold uppercase tracking-wide text-ink-muted">{title}</span>
+    <div className={`flex items-baseline gap-x-4 text-body ${faint ? "text-ink-muted" : ""}`} aria-live={faint ? undefined : "polite"}>
+      <span className="w-14 shrink-0 text-caption font-semibold uppercase tracking-wide text-ink-muted">{title}</span>
+      {/* the values wrap under each other, never under the title, and each value stays on one line */}
+      <div className="flex min-w-0 flex-wrap items-baseline gap-x-4 whitespace-nowrap">
       {r ? (
         <>
           <span className="num">{r.hz.toFixed(hzDigits)} Hz</span>
@@ -387,8 +389,9 @@ function Readout(props: {
           )}
         </>
       ) : (
-        <span className="text-caption text-ink-faint">{faint ? "move over the plot" : "click the plot or press → to step to a peak"}</span>
+        <span className="whitespace-normal text-caption text-ink-faint">{faint ? "move over the plot" : "click the plot or press → to step to a peak"}</span>
       )}
+      </div>
     </div>
   );
 }
