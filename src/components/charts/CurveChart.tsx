@@ -95,7 +95,7 @@ export function CurveChart(props: CurveChartProps) {
       ],
       bands: bands?.map((b) => ({ series: [b.upper, b.lower] as [number, number], fill: b.fill })),
       axes: [
-        axis(xLabel, xTime ? { values: (_u, splits, _i, _space, incr) => dateTicks(splits, incr) } : {}),
+        axis(xLabel, xTime ? { space: 72, values: (_u, splits, _i, _space, incr) => dateTicks(splits, incr) } : {}),
         axis(yLabel, { size: 60, values: yDigits === undefined ? undefined : (_u, splits) => splits.map((v) => (v == null ? "" : v.toFixed(yDigits).replace("-", "\u2212"))) }),
       ],
       cursor: {
