@@ -6,7 +6,8 @@
 //                      [--state-dir DIR] [--fresh]
 //
 // A run that is killed (power cut, crash, Ctrl-C) leaves a state file (./gateway-state.ts); the same command run again
-// asks the server where the stream stands and goes on from the server's last acknowledged chunk.
+// asks the server where the stream stands and goes on from the server's last acknowledged chunk. A run that starts over
+// instead (the file or the settings changed, --fresh) first aborts the saved session, so the server drops its frames.
 // Test hook: BARHOUND_TEST_GATEWAY_ACK_DELAY_MS (pause after each acknowledged chunk), honoured only when NODE_ENV=test.
 
 import fs from "node:fs/promises";
@@ -14,7 +15,7 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import { parseCapture, isCaptureParseError } from "../src/engine/parse/index.ts";
 import { captureToF32Frames } from "../server/gateway/assemble.ts";
-import { streamCapture, StreamRefused } from "../server/gateway/stream-client.ts";
+import { streamCapture, StreamRefused, type AbortOutcome } from "../server/gateway/stream-client.ts";
 import { CHANNEL_KINDS, frameBytes, type StreamChannel, type StreamError } from "../server/gateway/protocol.ts";
 import {
   STATE_FORMAT,
@@ -42,7 +43,7 @@ const USAGE = `Usage: npm run gateway -- --file FILE --asset ID --token TOKEN [-
   --taken-at     when the capture was recorded (ISO 8601; default now)
   --state-dir    where the state of an interrupted stream is kept (default .data/gateway-state, or
                  BARHOUND_GATEWAY_STATE_DIR); the same command run again resumes the stream
-  --fresh        ignore a saved interrupted stream and stream the file from the start`;
+  --fresh        do not resume a saved interrupted stream (the server is told to drop it); stream the file from the start`;
 
 function fail(message: string): never {
   process.stderr.write(`gateway: ${message}\n`);
@@ -160,15 +161,16 @@ async function main() {
   await removeStaleTemps(stateFile);
   const loaded = await loadState(stateFile);
   let saved: GatewayState | null = null;
+  // A saved stream this run starts over from, for a reason it knows: it is aborted on the server before the new begin.
+  let discarded: { state: GatewayState; why: string; reason: string } | null = null;
   if (loaded && "unreadable" in loaded) note(`ignoring the state file ${stateFile}: ${loaded.unreadable}. Starting a new stream.`);
   else if (loaded) {
     const s = loaded.state;
-    const was = `stream ${s.sessionId} (${s.ackedChunks} of ${s.totalChunks} chunks acknowledged)`;
     const change = fileChange(s.file, fileId);
     const settings = settingsChange(s.begin, { sampleRate, channels, takenAt: values["taken-at"] });
-    if (values.fresh) note(`--fresh: not resuming the interrupted ${was}; streaming ${fileName} from the start.`);
-    else if (change) note(`${fileName} changed since the interrupted run (${change}); not resuming ${was}, starting a new stream.`);
-    else if (settings) note(`${settings} since the interrupted run; not resuming ${was}, starting a new stream.`);
+    if (values.fresh) discarded = { state: s, why: "--fresh", reason: "--fresh: the gateway streams the file again from the start" };
+    else if (change) discarded = { state: s, why: `${fileName} changed since the interrupted run (${change})`, reason: `the file changed (${change})` };
+    else if (settings) discarded = { state: s, why: `${settings} since the interrupted run`, reason: `the settings changed (${settings})` };
     else saved = s;
   }
   if (saved) {
@@ -209,6 +211,7 @@ async function main() {
       process.exit(code);
     });
 
+  let abortTold = false;
   const testDelayMs = process.env.NODE_ENV === "test" ? Number(process.env.BARHOUND_TEST_GATEWAY_ACK_DELAY_MS) || 0 : 0;
 
   try {
@@ -219,6 +222,11 @@ async function main() {
       frames,
       chunkBytes: saved?.chunkBytes ?? chunkKb * 1024,
       ...(saved ? { resumeSessionId: saved.sessionId } : {}),
+      ...(discarded ? { abortSessionId: discarded.state.sessionId, abortReason: discarded.reason.slice(0, 200) } : {}),
+      onAbort: (outcome) => {
+        abortTold = true;
+        note(`${discarded!.why}: ${abandonment(discarded!.state, outcome)}; starting a new one.`);
+      },
       onResumeRefused: (error) => bar.note(`gateway: ${resumeRefusal(saved!, error, tokenPrefix(token))}`),
       onBegin: async ({ sessionId, nextSeq, resumed, chunkBytes, totalChunks }) => {
         if (saved && resumed && sessionId === saved.sessionId && !writer)
@@ -267,15 +275,38 @@ async function main() {
     bar.done();
     if (writer) await writer.save(writer.state); // the latest count, for the next run's messages
     const refused = err instanceof StreamRefused ? err.error : null;
-    let text = refused ? `the server refused the stream: ${refused.message}` : (err as Error).message;
     const pending = writer?.state ?? saved; // the stream a next run would resume
+    fail(failureText(err as Error, refused, { token, pending, stateFile, discarded: abortTold ? null : discarded }));
+  }
+}
+
+/** The one message of a failed run: the server's reason, then what becomes of the interrupted stream. */
+function failureText(
+  err: Error,
+  refused: StreamError | null,
+  o: { token: string; pending: GatewayState | null; stateFile: string; discarded: { state: GatewayState; why: string } | null },
+): string {
+  const { pending, stateFile } = o;
+  let text: string;
+  if (refused?.code === "unknown-token") {
+    // Not revoked: the token itself is wrong (mistyped, cut short, another server's), so checking it is the way on.
+    const prefix = tokenPrefix(o.token);
+    text =
+      `the server does not accept this token (${prefix ? `${prefix}_…` : "not a bhg_… token"}): ${refused.message} ` +
+      `Check the token given with --token or BARHOUND_GATEWAY_TOKEN.`;
+    if (pending)
+      text += ` The interrupted stream ${pending.sessionId} was not resumed; its state is kept (${stateFile}), so the same command with the right token resumes it.`;
+  } else {
+    text = refused ? `the server refused the ${refused.code === "unauthorized" ? "token" : "stream"}: ${refused.message}` : err.message;
     if (refused?.code === "revoked" && pending)
       text +=
         ` The interrupted stream ${pending.sessionId} (${pending.ackedChunks} of ${pending.totalChunks} chunks acknowledged) was not resumed;` +
         ` with a new token the file is streamed again from the start.`;
     else if (pending) text += ` Run the same command again to resume stream ${pending.sessionId} (state in ${stateFile}).`;
-    fail(text);
   }
+  // The run gave a saved stream up but stopped before the server was asked to abandon it.
+  if (o.discarded) text += ` The interrupted stream ${o.discarded.state.sessionId} is not resumed (${o.discarded.why}); the next run starts over too.`;
+  return text;
 }
 
 /** What differs in the begin parameters from the saved stream's ("the sample rate is now 5000 Hz (was 10000 Hz)"), or null. */
@@ -284,6 +315,25 @@ function settingsChange(saved: GatewayState["begin"], now: { sampleRate: number;
   if (JSON.stringify(saved.channels) !== JSON.stringify(now.channels)) return "the channel descriptions changed";
   if (now.takenAt !== undefined && Date.parse(now.takenAt) !== Date.parse(saved.takenAt)) return `--taken-at is now ${now.takenAt} (was ${saved.takenAt})`;
   return null;
+}
+
+/** What became of the saved stream this run gave up (a new one is begun after it), for one line. */
+function abandonment(old: GatewayState, outcome: AbortOutcome): string {
+  const was = `stream ${old.sessionId} (${old.ackedChunks} of ${old.totalChunks} chunks acknowledged)`;
+  switch (outcome.result) {
+    case "aborted":
+      return `abandoned the interrupted ${was} on the server`;
+    case "already-aborted":
+      return `the interrupted ${was} was already abandoned on the server`;
+    case "unsupported":
+      return `not resuming the interrupted ${was}; this server cannot abandon it (${outcome.detail.replace(/\.$/, "")}), so the old session is left to the server's 48 h sweep`;
+    case "refused":
+      if (outcome.error.code === "unknown-session")
+        return `not resuming the interrupted ${was}; the server does not know it (begun with another gateway's token, or removed)`;
+      if (outcome.error.code === "session-closed" && typeof outcome.error.captureId === "number")
+        return `the interrupted ${was} had already ended on the server as capture ${outcome.error.captureId}, which stays`;
+      return `not resuming the interrupted ${was}; the server did not abandon it (${outcome.error.message.replace(/\.$/, "")})`;
+  }
 }
 
 /** One line on why the saved stream is not resumed (a new one is begun after it). */
@@ -299,9 +349,10 @@ function resumeRefusal(saved: GatewayState, error: StreamError, nowPrefix: strin
       return `the server does not know the interrupted stream ${id} (${why}); starting a new stream.`;
     }
     case "session-closed":
-      return /deleted/.test(error.message)
-        ? `the server finished the interrupted stream ${id}, but its capture has since been deleted; starting a new stream.`
-        : `the server has given up the interrupted stream ${id} (no progress for too long; ${then}); starting a new stream.`;
+      if (/deleted/.test(error.message)) return `the server finished the interrupted stream ${id}, but its capture has since been deleted; starting a new stream.`;
+      if (/abandoned by the gateway/.test(error.message))
+        return `the interrupted stream ${id} was abandoned by a gateway run that started over (${then}); starting a new stream.`;
+      return `the server has given up the interrupted stream ${id} (no progress for too long; ${then}); starting a new stream.`;
     default:
       return `the server cannot resume the interrupted stream ${id} (${error.message.replace(/\.$/, "")}); starting a new stream.`;
   }

@@ -9,10 +9,12 @@ import type { StoreCaptureInput } from "../captures/ingest.ts";
 import {
   GATEWAY_NAMESPACE,
   MAX_CHUNK_BYTES,
+  abortMessage,
   beginMessage,
   chunkMessage,
   endMessage,
   frameBytes,
+  type AbortAck,
   type Ack,
   type BeginAck,
   type ChunkAck,
@@ -23,6 +25,8 @@ import {
 import { gatewayFromToken, type GatewayRow } from "./tokens.ts";
 import {
   abandonStaleSessions,
+  abandonedText,
+  abortSession,
   createSession,
   getSession,
   readFrames,
@@ -70,7 +74,8 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
   nsp.use(async (socket, next) => {
     try {
       const found = await gatewayFromToken(db, (socket.handshake.auth as { token?: unknown } | undefined)?.token);
-      if ("problem" in found) return next(Object.assign(new Error(found.problem), { data: { code: "unauthorized" } }));
+      // data.code stays "unauthorized" (what older gateways look for); data.reason tells them apart.
+      if ("problem" in found) return next(Object.assign(new Error(found.problem), { data: { code: "unauthorized", reason: found.reason } }));
       (socket.data as GatewaySocketData).gateway = found.gateway;
       next();
     } catch (err) {
@@ -122,6 +127,14 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
     socket.on("begin", handle<BeginAck>("begin", (raw) => begin(gateway, raw)));
     socket.on("chunk", handle<ChunkAck>("chunk", (raw) => chunk(gateway, raw)));
     socket.on("end", handle<EndAck>("end", (raw) => end(gateway, raw)));
+    socket.on("abort", handle<AbortAck>("abort", (raw) => abort(gateway, raw)));
+    // An event this server does not handle still gets an answer, so a newer gateway need not wait for a timeout.
+    socket.onAny((event: string, ...args: unknown[]) => {
+      const ack = args[args.length - 1];
+      if (KNOWN_EVENTS.has(event) || typeof ack !== "function") return;
+      const error: StreamError = { code: "unknown-event", message: `This server does not handle "${event}" (it handles ${[...KNOWN_EVENTS].join(", ")}).` };
+      (ack as (answer: Ack<never>) => void)({ error });
+    });
   });
 
   async function touch(gatewayId: number) {
@@ -152,7 +165,11 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
 
     if (msg.resumeSessionId) {
       const s = await ownSession(gateway, msg.resumeSessionId);
-      if (s.status === "aborted") throw new StreamRefusal("session-closed", `Stream session ${s.id} was abandoned; send "begin" without resumeSessionId to start again.`);
+      if (s.status === "aborted")
+        throw new StreamRefusal(
+          "session-closed",
+          `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}; send "begin" without resumeSessionId to start again.`,
+        );
       const same =
         s.sample_format === msg.sampleFormat && s.sample_rate === msg.sampleRate && s.channels.length === msg.channels.length && s.asset_id === msg.assetId;
       if (!same)
@@ -194,6 +211,7 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
     const data = toBuffer(r.data.data);
     return serial(sessionId, async () => {
       const s = await ownSession(gateway, sessionId);
+      if (s.status === "aborted") throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}; it takes no more chunks.`, { seq });
       if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} has ended; it takes no more chunks.`, { seq });
       // A resend of a chunk already stored (its ack was lost with the connection): acknowledge it again, store nothing.
       if (seq < s.next_seq) return { seq, duplicate: true };
@@ -217,6 +235,14 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
       await writeChunkAt(config, s.id, s.bytes_received, data);
       // If another connection stored this chunk in the meantime, it wrote the same bytes at the same offset.
       const advanced = await recordChunk(db, s.id, seq, data.length);
+      if (!advanced) {
+        // Aborted on another server process while this chunk was written: do not leave the bytes behind.
+        const now = await getSession(db, s.id);
+        if (now?.status === "aborted") {
+          await removePart(config, s.id).catch(() => {});
+          throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(now, STALE_SESSION_HOURS)}; it takes no more chunks.`, { seq });
+        }
+      }
       return advanced ? { seq } : { seq, duplicate: true };
     });
   }
@@ -237,7 +263,7 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
           const cap = await trx("captures").where({ id: s.capture_id }).first("status");
           return { captureId: s.capture_id, status: String(cap?.status ?? "received"), ended: false };
         }
-        if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} was abandoned.`);
+        if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}.`);
         if (totalChunks !== s.next_seq)
           throw new StreamRefusal(
             "incomplete",
@@ -274,8 +300,32 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
     });
   }
 
+  // The gateway will not finish this session (it starts over): its frames are deleted and it cannot be resumed.
+  async function abort(gateway: GatewayRow, raw: unknown): Promise<AbortAck> {
+    const r = abortMessage.safeParse(raw);
+    if (!r.success) throw new StreamRefusal("bad-request", `"abort" is not valid: ${describeIssues(r.error.issues)}`);
+    const { sessionId, reason } = r.data;
+    return serial(sessionId, async () => {
+      await ownSession(gateway, sessionId);
+      await assertNotRevoked(gateway);
+      void touch(gateway.id);
+      const before = await abortSession(db, config, sessionId, reason);
+      if (before.status === "ended")
+        throw new StreamRefusal(
+          "session-closed",
+          before.capture_id === null
+            ? `Stream session ${sessionId} has ended (its capture was since deleted); there is nothing to abort.`
+            : `Stream session ${sessionId} has ended as capture ${before.capture_id}; it cannot be aborted (the capture stays; delete it in Barhound if it is not wanted).`,
+          { captureId: before.capture_id },
+        );
+      return before.status === "aborted" ? { sessionId, status: "aborted", alreadyAborted: true } : { sessionId, status: "aborted" };
+    });
+  }
+
   return { nsp, close: () => clearInterval(sweeper) };
 }
+
+const KNOWN_EVENTS = new Set(["begin", "chunk", "end", "abort"]);
 
 function toBuffer(data: Buffer | ArrayBuffer | ArrayBufferView): Buffer {
   if (Buffer.isBuffer(data)) return data;

@@ -13,10 +13,15 @@
 //     → { seq, duplicate? }                         duplicate: this chunk was already stored, it was not appended again
 //   end { sessionId, totalChunks }
 //     → { captureId, status }                       the capture is queued for analysis like an upload
+//   abort { sessionId, reason? }                    the gateway will not finish this open session: its stored frames are
+//     → { sessionId, status: "aborted", alreadyAborted? }   deleted and it cannot be resumed (optional: older servers lack it)
 //
 // When a request is refused the server emits `stream:error { code, message, sessionId?, seq?, nextSeq? }`
 // and answers the acknowledgement with `{ error: { code, message, nextSeq? } }`, so a gateway waiting on the
-// ack is never left hanging.
+// ack is never left hanging; an event the server does not know is answered with code "unknown-event".
+//
+// A refused handshake is a connect_error with `data: { code: "unauthorized", reason }`, reason one of
+// CONNECT_REFUSALS (older servers send no reason).
 
 import { z } from "zod";
 
@@ -73,6 +78,17 @@ export const endMessage = z.object({
 });
 export type EndMessage = z.infer<typeof endMessage>;
 
+export const abortMessage = z.object({
+  sessionId: z.uuid("sessionId must be the sessionId the server gave for the stream."),
+  /** Why the gateway gives the stream up ("the file changed"), kept with the session. */
+  reason: z.string().trim().max(200, "The abort reason may be at most 200 characters.").optional(),
+});
+export type AbortMessage = z.infer<typeof abortMessage>;
+
+/** Why a handshake was refused: connect_error `data.reason` (data.code stays "unauthorized" for older clients). */
+export const CONNECT_REFUSALS = ["missing-token", "malformed-token", "unknown-token", "revoked"] as const;
+export type ConnectRefusal = (typeof CONNECT_REFUSALS)[number];
+
 export type StreamErrorCode =
   | "bad-request"
   | "unknown-session"
@@ -86,6 +102,12 @@ export type StreamErrorCode =
   | "incomplete"
   | "empty"
   | "revoked"
+  /** At connect: the token is missing, malformed or not one the server knows (check the token). */
+  | "unknown-token"
+  /** At connect, from an older server that does not say why the token was refused. */
+  | "unauthorized"
+  /** The server does not handle this event (an older server, or a typo in the event name). */
+  | "unknown-event"
   | "busy"
   | "server";
 
@@ -96,6 +118,8 @@ export interface StreamError {
   seq?: number;
   /** The chunk the server expects next, when that helps the gateway recover. */
   nextSeq?: number;
+  /** The capture an ended session became (an abort of it is refused: the capture exists). */
+  captureId?: number | null;
 }
 
 export interface BeginAck {
@@ -115,6 +139,12 @@ export interface ChunkAck {
 export interface EndAck {
   captureId: number;
   status: string;
+}
+export interface AbortAck {
+  sessionId: string;
+  status: "aborted";
+  /** The session had already been abandoned (by an earlier abort or the server's sweep); nothing more was deleted. */
+  alreadyAborted?: boolean;
 }
 export type Ack<T> = T | { error: StreamError };
 

@@ -25,6 +25,9 @@ export interface StreamSession {
   next_seq: number;
   bytes_received: number;
   status: "open" | "ended" | "aborted";
+  /** Who gave an aborted session up: the gateway ("abort") or the stale-session sweep. */
+  aborted_by: "gateway" | "sweep" | null;
+  abort_reason: string | null;
   capture_id: number | null;
   taken_at: Date | null;
   created_at: Date;
@@ -135,8 +138,30 @@ export async function abandonStaleSessions(db: Knex, config: Config, olderThanHo
   const rows: { id: string }[] = await db("stream_sessions")
     .where({ status: "open" })
     .andWhere("updated_at", "<", db.raw(`now() - make_interval(hours => ?)`, [olderThanHours]))
-    .update({ status: "aborted", updated_at: db.fn.now() })
+    .update({ status: "aborted", aborted_by: "sweep", updated_at: db.fn.now() })
     .returning("id");
   for (const r of rows) await removePart(config, r.id).catch(() => {});
   return rows.length;
+}
+
+/**
+ * The gateway gives an open session up: mark it aborted and delete its part file. Returns the session as it was
+ * before (under its row lock), so the caller can tell an ended or already aborted one; only an open one is changed.
+ */
+export async function abortSession(db: Knex, config: Config, sessionId: string, reason: string | undefined): Promise<StreamSession> {
+  const before = await db.transaction(async (trx) => {
+    const s = (await getSession(trx, sessionId, { forUpdate: true }))!;
+    if (s.status === "open")
+      await trx("stream_sessions").where({ id: s.id }).update({ status: "aborted", aborted_by: "gateway", abort_reason: reason || null, updated_at: trx.fn.now() });
+    return s;
+  });
+  // After the commit: a chunk arriving meanwhile finds the session aborted and is not counted.
+  if (before.status === "open") await removePart(config, sessionId);
+  return before;
+}
+
+/** "was abandoned by the gateway (the file changed)" or "was abandoned after 48 h without progress". */
+export function abandonedText(s: Pick<StreamSession, "aborted_by" | "abort_reason">, staleHours: number): string {
+  if (s.aborted_by === "gateway") return `was abandoned by the gateway${s.abort_reason ? ` (${s.abort_reason})` : ""}`;
+  return `was abandoned after ${staleHours} h without progress`;
 }

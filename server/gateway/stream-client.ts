@@ -4,19 +4,23 @@
 //
 // A gateway that was restarted passes the session it saved (`resumeSessionId`, with the same chunk size): the server's
 // answer says where it stands, and the stream goes on from there, or, when the server cannot resume it (abandoned,
-// another gateway's, a different layout), `onResumeRefused` is told and a new session is begun.
+// another gateway's, a different layout), `onResumeRefused` is told and a new session is begun. A gateway that starts
+// over instead (the file changed) passes the session it gives up (`abortSessionId`): it is aborted on the server
+// before the new one is begun, so its frames do not wait for the 48 h sweep.
 
 import { io, type Socket } from "socket.io-client";
 import {
   GATEWAY_NAMESPACE,
   frameBytes,
   isAckError,
+  type AbortAck,
   type Ack,
   type BeginAck,
   type ChunkAck,
   type EndAck,
   type SampleFormat,
   type StreamChannel,
+  type ConnectRefusal,
   type StreamError,
 } from "./protocol.ts";
 
@@ -41,6 +45,16 @@ export interface StreamCaptureOptions {
    * its stored bytes do not fit this capture's chunks): told why, then a new session is begun on the same connection.
    */
   onResumeRefused?: (error: StreamError) => void;
+  /**
+   * A session of an earlier run that this gateway will not finish (it starts over): sent "abort" before the new session
+   * is begun. Whatever the answer, the stream goes on; `onAbort` is told how it went.
+   */
+  abortSessionId?: string;
+  /** Kept with the aborted session on the server ("the file changed"). */
+  abortReason?: string;
+  onAbort?: (outcome: AbortOutcome) => void;
+  /** How long to wait for the abort's ack before taking the server for one without "abort" (default 5 s). */
+  abortTimeoutMs?: number;
   /** Told each begin answer before any chunk is sent (awaited: a gateway saves the session id here). */
   onBegin?: (p: { sessionId: string; nextSeq: number; resumed: boolean; chunkBytes: number; totalChunks: number }) => void | Promise<void>;
   /** Chunks sent before waiting for the oldest ack (default 4). */
@@ -71,6 +85,14 @@ export interface StreamCaptureResult {
   alreadyEnded?: boolean;
 }
 
+/** How an abort of `abortSessionId` went. */
+export type AbortOutcome =
+  | { sessionId: string; result: "aborted" | "already-aborted" }
+  /** An older server without "abort" (it said the event is unknown, or did not answer): the session is left to its sweep. */
+  | { sessionId: string; result: "unsupported"; detail: string }
+  /** Refused: another gateway's or a removed session ("unknown-session"), or one that ended ("session-closed", captureId). */
+  | { sessionId: string; result: "refused"; error: StreamError };
+
 /** The server refused something; retrying the same thing will not help. */
 export class StreamRefused extends Error {
   constructor(public error: StreamError) {
@@ -95,6 +117,7 @@ export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamC
   // True until the server has answered the resume of the saved session; its refusal then means "begin anew".
   let restartPending = sessionId !== undefined;
   let restartedAt: number | undefined;
+  let abortPending = opts.abortSessionId !== undefined;
 
   for (let attempt = 0; ; attempt++) {
     const socket = io(opts.url.replace(/\/+$/, "") + GATEWAY_NAMESPACE, {
@@ -116,6 +139,11 @@ export async function streamCapture(opts: StreamCaptureOptions): Promise<StreamC
           ...(opts.takenAt ? { takenAt: opts.takenAt } : {}),
           ...(resumeSessionId ? { resumeSessionId } : {}),
         });
+      if (abortPending) {
+        const outcome = await abortOld(socket, opts.abortSessionId!, opts.abortReason, opts.abortTimeoutMs ?? 5000);
+        abortPending = false;
+        opts.onAbort?.(outcome);
+      }
       let began: BeginAck;
       let ended: EndAck | null = null;
       if (restartPending) {
@@ -222,13 +250,43 @@ async function resumeSaved(
   }
 }
 
+/**
+ * Send "abort" for a session this gateway gives up. Not through `requester`: its timeout means an older server that
+ * ignores the event, not a dead connection, so it must not close the socket. A revoked token is final, as for begin.
+ */
+function abortOld(socket: Socket, sessionId: string, reason: string | undefined, timeoutMs: number): Promise<AbortOutcome> {
+  return new Promise((resolve, reject) => {
+    socket.timeout(timeoutMs).emit("abort", { sessionId, ...(reason ? { reason } : {}) }, (err: Error | null, answer: Ack<AbortAck>) => {
+      if (err) {
+        if (!socket.connected) return reject(new ConnectionLost(`Connection lost while abandoning stream ${sessionId}.`));
+        return resolve({ sessionId, result: "unsupported", detail: `no answer to "abort" within ${timeoutMs / 1000} s` });
+      }
+      if (!isAckError(answer)) return resolve({ sessionId, result: answer.alreadyAborted ? "already-aborted" : "aborted" });
+      if (answer.error.code === "unknown-event") return resolve({ sessionId, result: "unsupported", detail: answer.error.message });
+      if (answer.error.code === "revoked") return reject(new StreamRefused(answer.error));
+      resolve({ sessionId, result: "refused", error: answer.error });
+    });
+  });
+}
+
+/** connect_error data.reason → the error code a gateway acts on (an older server gives no reason). */
+const REFUSAL_CODES: Record<ConnectRefusal, StreamError["code"]> = {
+  "missing-token": "unknown-token",
+  "malformed-token": "unknown-token",
+  "unknown-token": "unknown-token",
+  revoked: "revoked",
+};
+
 function connected(socket: Socket): Promise<void> {
   return new Promise((resolve, reject) => {
     socket.once("connect", () => resolve());
-    socket.once("connect_error", (err: Error & { data?: { code?: string } }) => {
+    socket.once("connect_error", (err: Error & { data?: { code?: string; reason?: string } }) => {
       // A refused token is final; a server that is down or restarting is worth another try.
-      if (err.data?.code === "unauthorized") reject(new StreamRefused({ code: "revoked", message: err.message }));
-      else reject(new ConnectionLost(`Could not connect to the server (${err.message})`));
+      if (err.data?.code === "unauthorized") {
+        const reason = err.data.reason as ConnectRefusal | undefined;
+        const code = reason && Object.hasOwn(REFUSAL_CODES, reason) ? REFUSAL_CODES[reason] : "unauthorized";
+        reject(new StreamRefused({ code, message: err.message }));
+      } else reject(new ConnectionLost(`Could not connect to the server (${err.message})`));
     });
   });
 }

@@ -12,7 +12,9 @@ import type { AnalysisJobData, CaptureQueue } from "../../server/queue.ts";
 import { parseCapture, writeCsv, writeWav } from "../../src/engine/parse/index.ts";
 import type { Capture } from "../../src/engine/types.ts";
 import { captureToF32Frames } from "../../server/gateway/assemble.ts";
-import { streamCapture } from "../../server/gateway/stream-client.ts";
+import http from "node:http";
+import { Server as IoServer } from "socket.io";
+import { streamCapture, StreamRefused, type AbortOutcome } from "../../server/gateway/stream-client.ts";
 import { abandonStaleSessions, partPath } from "../../server/gateway/session-store.ts";
 import type { StreamError } from "../../server/gateway/protocol.ts";
 
@@ -258,6 +260,134 @@ describe("streamed captures", () => {
     expect(resume.error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/abandoned/) });
   });
 
+  it("abort deletes an open session's frames and closes it for good; a second abort is harmless", async () => {
+    const socket = await rawGateway(token);
+    const base = { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
+    const { sessionId } = await socket.emitWithAck("begin", base);
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) })).toEqual({ seq: 0 });
+    expect(fs.statSync(partPath(env.config, sessionId)).size).toBe(120);
+
+    expect(await socket.emitWithAck("abort", { sessionId, reason: "the file changed" })).toEqual({ sessionId, status: "aborted" });
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
+    const row = await env.db("stream_sessions").where({ id: sessionId }).first();
+    expect(row).toMatchObject({ status: "aborted", aborted_by: "gateway", abort_reason: "the file changed", capture_id: null });
+
+    const resume = await socket.emitWithAck("begin", { ...base, resumeSessionId: sessionId });
+    expect(resume.error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/was abandoned by the gateway \(the file changed\)/) });
+    expect((await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(30, 10) })).error).toMatchObject({ code: "session-closed", seq: 1 });
+    expect((await socket.emitWithAck("end", { sessionId, totalChunks: 1 })).error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/abandoned by the gateway/) });
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
+
+    // Again (a retried abort whose ack was lost): acknowledged, nothing else changes.
+    expect(await socket.emitWithAck("abort", { sessionId, reason: "another reason" })).toEqual({ sessionId, status: "aborted", alreadyAborted: true });
+    expect(await env.db("stream_sessions").where({ id: sessionId }).first()).toMatchObject({ status: "aborted", abort_reason: "the file changed", next_seq: 1 });
+  });
+
+  it("refuses to abort an ended session (its capture stays), another gateway's session (as unknown) and a malformed abort", async () => {
+    const socket = await rawGateway(token);
+    const base = { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
+    const { sessionId } = await socket.emitWithAck("begin", base);
+    await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 100) });
+    const { captureId } = await socket.emitWithAck("end", { sessionId, totalChunks: 1 });
+    const ended = await socket.emitWithAck("abort", { sessionId });
+    expect(ended.error).toMatchObject({ code: "session-closed", sessionId, captureId, message: expect.stringMatching(new RegExp(`has ended as capture ${captureId}; it cannot be aborted`)) });
+    expect(await env.db("stream_sessions").where({ id: sessionId }).first()).toMatchObject({ status: "ended", capture_id: captureId, aborted_by: null });
+    expect(await env.db("captures").where({ id: captureId }).first()).toBeTruthy();
+
+    const other = await newGateway("Gateway whose session is not ours");
+    const otherSocket = await rawGateway(other.token);
+    const theirs = await otherSocket.emitWithAck("begin", base);
+    await otherSocket.emitWithAck("chunk", { sessionId: theirs.sessionId, seq: 0, data: frames3(0, 10) });
+    const abort = await socket.emitWithAck("abort", { sessionId: theirs.sessionId });
+    const resume = await socket.emitWithAck("begin", { ...base, resumeSessionId: theirs.sessionId });
+    expect(abort.error.code).toBe("unknown-session");
+    expect(abort.error).toMatchObject({ code: resume.error.code, message: resume.error.message });
+    expect(await env.db("stream_sessions").where({ id: theirs.sessionId }).first()).toMatchObject({ status: "open", next_seq: 1 });
+    expect(fs.statSync(partPath(env.config, theirs.sessionId)).size).toBe(120);
+
+    expect((await socket.emitWithAck("abort", { sessionId: "not-a-session" })).error).toMatchObject({ code: "bad-request", message: expect.stringMatching(/"abort" is not valid/) });
+    // An event the server does not handle is answered, not left to time out.
+    expect((await socket.emitWithAck("pause", { sessionId })).error).toMatchObject({ code: "unknown-event", message: expect.stringMatching(/does not handle "pause"/) });
+  });
+
+  it("the stream client aborts the session it gives up before beginning anew, and carries on with a server that has no abort", async () => {
+    const socket = await rawGateway(token);
+    const base = { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" as const };
+    const { sessionId: old } = await socket.emitWithAck("begin", base);
+    await socket.emitWithAck("chunk", { sessionId: old, seq: 0, data: frames3(0, 10) });
+    const outcomes: AbortOutcome[] = [];
+    const all = frames3(0, 300);
+    const result = await streamCapture({ url: server.url, token, ...base, frames: all, chunkBytes: 1200, abortSessionId: old, abortReason: "--fresh", onAbort: (o) => outcomes.push(o) });
+    expect(outcomes).toEqual([{ sessionId: old, result: "aborted" }]);
+    expect(result.sessionId).not.toBe(old);
+    expect(await env.db("stream_sessions").where({ id: old }).first()).toMatchObject({ status: "aborted", abort_reason: "--fresh" });
+    expect(captureToF32Frames((await storedCapture(result.captureId)).capture).equals(all)).toBe(true);
+
+    // A server from before "abort": it ignores the event. The client waits for its abort timeout, then begins.
+    const oldHttp = http.createServer();
+    const oldIo = new IoServer(oldHttp);
+    const begins: unknown[] = [];
+    oldIo.of("/gateway").on("connection", (s) =>
+      s.on("begin", (msg: unknown, ack: (a: unknown) => void) => {
+        begins.push(msg);
+        ack({ error: { code: "unknown-asset", message: "There is no motor with id 1 on this old server." } });
+      }),
+    );
+    await new Promise<void>((r) => oldHttp.listen(0, "127.0.0.1", () => r()));
+    try {
+      const told: AbortOutcome[] = [];
+      const refused = await streamCapture({
+        url: `http://127.0.0.1:${(oldHttp.address() as { port: number }).port}`,
+        token,
+        ...base,
+        frames: all,
+        abortSessionId: old,
+        abortTimeoutMs: 200,
+        onAbort: (o) => told.push(o),
+      }).catch((e: unknown) => e);
+      expect(told).toEqual([{ sessionId: old, result: "unsupported", detail: 'no answer to "abort" within 0.2 s' }]);
+      expect(begins).toHaveLength(1);
+      expect(refused).toBeInstanceOf(StreamRefused);
+      expect((refused as StreamRefused).error.code).toBe("unknown-asset");
+    } finally {
+      oldIo.close();
+      oldHttp.closeAllConnections();
+    }
+  });
+
+  it("tells an unknown token from a revoked one at connect, in the stream client and in the command-line gateway", async () => {
+    const unknown = "bhg_00000000_" + "y".repeat(43);
+    const unknownErr = (await rawGateway(unknown).catch((e: unknown) => e)) as Error & { data?: unknown };
+    expect(unknownErr.data).toEqual({ code: "unauthorized", reason: "unknown-token" });
+    expect(((await rawGateway("secret").catch((e: unknown) => e)) as { data?: unknown }).data).toEqual({ code: "unauthorized", reason: "malformed-token" });
+    const revoked = await newGateway("Gateway revoked before connecting");
+    const admin = await signedIn(env.app, "admin");
+    expect((await admin.post(`/api/gateways/${revoked.id}/revoke`)).status).toBe(200);
+    const revokedErr = (await rawGateway(revoked.token).catch((e: unknown) => e)) as Error & { data?: unknown };
+    expect(revokedErr.data).toEqual({ code: "unauthorized", reason: "revoked" });
+
+    const attempt = (tok: string) =>
+      streamCapture({ url: server.url, token: tok, assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le", frames: frames3(0, 10), retries: 0 }).then(
+        () => new StreamRefused({ code: "server", message: "the stream was accepted" }),
+        (e: unknown) => e as StreamRefused,
+      );
+    expect((await attempt(unknown)).error).toMatchObject({ code: "unknown-token", message: expect.stringMatching(/Unknown gateway token/) });
+    expect((await attempt(revoked.token)).error).toMatchObject({ code: "revoked", message: expect.stringMatching(/was revoked/) });
+
+    const file = path.join(dataDir, "token-check.wav");
+    fs.writeFileSync(file, writeWav(syntheticCapture(0.2, 5000)));
+    const cli = (tok: string) => runGatewayCli(["--file", file, "--asset", String(motor.assetId), "--token", tok, "--url", server.url, "--state-dir", path.join(dataDir, "state-token")]);
+    const byUnknown = await cli(unknown);
+    expect(byUnknown.code).toBe(1);
+    expect(byUnknown.stderr).toMatch(/the server does not accept this token \(bhg_00000000_…\): Unknown gateway token\..*Check the token given with --token or BARHOUND_GATEWAY_TOKEN\./);
+    expect(byUnknown.stderr).not.toMatch(/revoked/);
+    const byRevoked = await cli(revoked.token);
+    expect(byRevoked.code).toBe(1);
+    expect(byRevoked.stderr).toMatch(/the server refused the stream: The token of gateway "Gateway revoked before connecting" .* was revoked\. Ask an admin for a new token\./);
+    expect(byRevoked.stderr).not.toMatch(/Check the token given/);
+    expect(await env.db("captures").where({ gateway_id: revoked.id }).count("* as n").first()).toMatchObject({ n: "0" });
+  });
+
   it("refuses a missing, unknown or revoked token, and disconnects a gateway when its token is revoked", async () => {
     await expect(rawGateway(undefined)).rejects.toThrow(/No gateway token given/);
     await expect(rawGateway("bhg_00000000_" + "x".repeat(43))).rejects.toThrow(/Unknown gateway token/);
@@ -388,14 +518,17 @@ describe("the command-line gateway after a restart", { timeout: 60_000 }, () => 
     const { sessionId, row: interrupted } = await interruptedRun(cliArgs(file, stateDir));
     const fresh = await runGatewayCli(cliArgs(file, stateDir, token, "--fresh"));
     expect(fresh.code, fresh.stderr).toBe(0);
-    expect(fresh.stderr).toMatch(new RegExp(`--fresh: not resuming the interrupted stream ${sessionId} \\(\\d+ of ${TOTAL_CHUNKS} chunks acknowledged\\)`));
+    expect(fresh.stderr).toMatch(
+      new RegExp(`--fresh: abandoned the interrupted stream ${sessionId} \\(\\d+ of ${TOTAL_CHUNKS} chunks acknowledged\\) on the server; starting a new one\\.`),
+    );
     expect(fresh.stderr).not.toContain("resuming stream");
     const captureId = Number(fresh.stdout);
     const made = await env.db("stream_sessions").where({ capture_id: captureId }).first();
     expect(made.id).not.toBe(sessionId);
     expect(made).toMatchObject({ status: "ended", next_seq: TOTAL_CHUNKS });
-    // The interrupted session is left as it was (the stale-session sweep removes it later).
-    expect(await session(sessionId)).toMatchObject({ status: "open", next_seq: interrupted.next_seq });
+    // The interrupted session was aborted before the new one began: its frames are gone, its count is as it was.
+    expect(await session(sessionId)).toMatchObject({ status: "aborted", aborted_by: "gateway", next_seq: interrupted.next_seq, capture_id: null });
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
     expect(captureToF32Frames((await storedCapture(captureId)).capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
     expect(stateFiles(stateDir)).toEqual([]);
   });
@@ -408,12 +541,25 @@ describe("the command-line gateway after a restart", { timeout: 60_000 }, () => 
     captureFile("pump-4.wav", 40);
     expect(fs.statSync(file).size).toBe(sizeBefore);
 
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(true);
+    const capturesBefore = await countCaptures(gatewayId);
+    const sessionsBefore: string[] = await env.db("stream_sessions").where({ gateway_id: gatewayId }).pluck("id");
+
     const again = await runGatewayCli(cliArgs(file, stateDir));
     expect(again.code, again.stderr).toBe(0);
-    expect(again.stderr).toContain(`pump-4.wav changed since the interrupted run (its content differs (same size`);
-    expect(again.stderr).toContain(`not resuming stream ${sessionId}`);
+    const told = again.stderr.split("\n").filter((l) => l.includes(sessionId));
+    expect(told).toHaveLength(1);
+    expect(told[0]).toMatch(/pump-4\.wav changed since the interrupted run \(its content differs \(same size/);
+    expect(told[0]).toMatch(new RegExp(`abandoned the interrupted stream ${sessionId} \\(\\d+ of ${TOTAL_CHUNKS} chunks acknowledged\\) on the server; starting a new one\\.$`));
+    // The server no longer holds the old session open, nor its frames.
+    expect(await session(sessionId)).toMatchObject({ status: "aborted", aborted_by: "gateway", abort_reason: expect.stringMatching(/^the file changed/) });
+    expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
+    // One new session, ended as the one new capture.
     const captureId = Number(again.stdout);
-    expect((await env.db("stream_sessions").where({ capture_id: captureId }).first()).id).not.toBe(sessionId);
+    const added = await env.db("stream_sessions").where({ gateway_id: gatewayId }).whereNotIn("id", sessionsBefore);
+    expect(added).toEqual([expect.objectContaining({ status: "ended", capture_id: captureId, next_seq: TOTAL_CHUNKS })]);
+    expect(await countCaptures(gatewayId)).toBe(capturesBefore + 1);
+    expect(jobs.filter((j) => j.captureId === captureId)).toHaveLength(1);
     // The capture holds the file as it is now, not the start of the old one.
     const frames = captureToF32Frames((await storedCapture(captureId)).capture);
     expect(frames.equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
