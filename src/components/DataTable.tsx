@@ -184,3 +184,24 @@ export function useListParams(defaults: { pageSize?: number; sort?: string; filt
     query: { page: params.page, pageSize: params.pageSize, sort: params.sort, ...params.filters },
   };
 }
+
+/**
+ * The DataTable props that come from the URL's list state and one server page query:
+ * `<DataTable {...pagedTableProps(list, query)} columns={…} rowKey={…} />`.
+ */
+export function pagedTableProps<T>(
+  list: Pick<ReturnType<typeof useListParams>, "page" | "pageSize" | "sort" | "setSort" | "setPage">,
+  q: { data?: { items: T[]; total: number }; isPending: boolean; error: unknown },
+): Pick<DataTableProps<T>, "rows" | "total" | "page" | "pageSize" | "sort" | "onSortChange" | "onPageChange" | "loading" | "error"> {
+  return {
+    rows: q.data?.items,
+    total: q.data?.total,
+    page: list.page,
+    pageSize: list.pageSize,
+    sort: list.sort,
+    onSortChange: list.setSort,
+    onPageChange: list.setPage,
+    loading: q.isPending,
+    error: q.error,
+  };
+}

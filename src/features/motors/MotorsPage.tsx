@@ -1,7 +1,7 @@
 // The motor register (/motors): server-side paginated, sortable and filterable list of every motor.
 import { useEffect, useState } from "react";
 import { Link, useNavigate } from "react-router-dom";
-import { DataTable, useListParams, type Column } from "../../components/DataTable.tsx";
+import { DataTable, pagedTableProps, useListParams, type Column } from "../../components/DataTable.tsx";
 import { Figure } from "../../components/Figure.tsx";
 import { Select, TextInput } from "../../components/Form.tsx";
 import { GradeBadge } from "../../components/GradeBadge.tsx";
@@ -68,17 +68,9 @@ export default function MotorsPage() {
     >
       <DataTable
         caption="Motors"
+        {...pagedTableProps(list, assets)}
         columns={columns}
-        rows={assets.data?.items}
         rowKey={(a) => a.id}
-        total={assets.data?.total}
-        page={list.page}
-        pageSize={list.pageSize}
-        sort={list.sort}
-        onSortChange={list.setSort}
-        onPageChange={list.setPage}
-        loading={assets.isPending}
-        error={assets.error}
         onRowClick={(a) => navigate(`/motors/${a.id}`)}
         toolbar={
           <>

@@ -2,7 +2,7 @@ import { useState } from "react";
 import { Link, useSearchParams } from "react-router-dom";
 import { useQuery } from "@tanstack/react-query";
 import { Page, Section } from "../../components/Page.tsx";
-import { DataTable, useListParams, type Column } from "../../components/DataTable.tsx";
+import { DataTable, pagedTableProps, useListParams, type Column } from "../../components/DataTable.tsx";
 import { Button } from "../../components/Button.tsx";
 import { Select } from "../../components/Form.tsx";
 import { GradeBadge } from "../../components/GradeBadge.tsx";
@@ -209,17 +209,9 @@ function InspectionList({ list, onOpen }: { list: ReturnType<typeof useListParam
   return (
     <DataTable
       caption="Inspections"
+      {...pagedTableProps(list, q)}
       columns={columns}
-      rows={q.data?.items}
       rowKey={(i) => i.id}
-      total={q.data?.total}
-      page={list.page}
-      pageSize={list.pageSize}
-      sort={list.sort}
-      onSortChange={list.setSort}
-      onPageChange={list.setPage}
-      loading={q.isPending}
-      error={q.error}
       onRowClick={onOpen}
       empty={<EmptyState title="No inspections match">Schedule one from a finding above, or change the filters.</EmptyState>}
     />

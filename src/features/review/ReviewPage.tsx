@@ -1,7 +1,7 @@
 // Review (/review): captures whose analysis raised or changed a finding that waits for a verdict, worst first,
 // with the motor, the grade or zone, the load and how long it has waited. A row opens the capture's spectrum.
 import { Link, useNavigate } from "react-router-dom";
-import { DataTable, useListParams, type Column } from "../../components/DataTable.tsx";
+import { DataTable, pagedTableProps, useListParams, type Column } from "../../components/DataTable.tsx";
 import { EmptyState } from "../../components/EmptyState.tsx";
 import { Figure } from "../../components/Figure.tsx";
 import { Select } from "../../components/Form.tsx";
@@ -77,17 +77,9 @@ export default function ReviewPage() {
     <Page wide title="Review" description="Captures whose analysis raised or worsened a finding, worst first. Open one to check the spectrum and record a verdict.">
       <DataTable
         caption="Captures waiting for a verdict"
+        {...pagedTableProps(list, review)}
         columns={columns}
-        rows={review.data?.items}
         rowKey={(r) => r.captureId}
-        total={review.data?.total}
-        page={list.page}
-        pageSize={list.pageSize}
-        sort={list.sort}
-        onSortChange={list.setSort}
-        onPageChange={list.setPage}
-        loading={review.isPending}
-        error={review.error}
         onRowClick={(r) => navigate(`/captures/${r.captureId}`)}
         empty={<EmptyState title="Nothing waits for a verdict">New findings appear here as captures are analysed.</EmptyState>}
         toolbar={
