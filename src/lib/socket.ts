@@ -40,6 +40,7 @@ export function connectSocket(queryClient: QueryClient): () => void {
   s.on("disconnect", () => announce(false));
   for (const event of Object.keys(EVENT_INVALIDATIONS) as ServerEventName[]) {
     s.on(event as string, (payload: unknown) => {
+      if (event === "capture:status") rememberCaptureStatus(payload as CaptureStatusEvent);
       for (const key of EVENT_INVALIDATIONS[event]) void queryClient.invalidateQueries({ queryKey: key });
       for (const fn of listeners.get(event) ?? []) fn(payload);
     });
@@ -56,6 +57,24 @@ export function connectSocket(queryClient: QueryClient): () => void {
     for (const keys of Object.values(EVENT_INVALIDATIONS)) for (const key of keys) void queryClient.invalidateQueries({ queryKey: key });
   });
   return disconnectSocket;
+}
+
+type CaptureStatusEvent = Parameters<ServerEvents["capture:status"]>[0];
+const RECENT_CAPTURES = 200;
+const recentCaptureStatus = new Map<number, CaptureStatusEvent>();
+
+/** Keep the latest live status of recent captures, so a screen that learns a capture's id after its event
+ *  arrived (the upload answer and the worker's first event race) still starts from it. */
+function rememberCaptureStatus(e: CaptureStatusEvent) {
+  if (typeof e?.id !== "number") return;
+  recentCaptureStatus.delete(e.id);
+  recentCaptureStatus.set(e.id, e);
+  if (recentCaptureStatus.size > RECENT_CAPTURES) recentCaptureStatus.delete(recentCaptureStatus.keys().next().value!);
+}
+
+/** The last capture:status event this page received for a capture, if any (of the last 200 captures). */
+export function lastCaptureStatus(id: number): CaptureStatusEvent | undefined {
+  return recentCaptureStatus.get(id);
 }
 
 export function disconnectSocket() {

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { validate } from "../../src/lib/forms.ts";
 import { ApiError } from "../../src/lib/api.ts";
 import { allowedMoves, completeSchema, isOverdue, scheduleSchema, suggestDueDate, suggestPriority, todayIso } from "../../src/lib/inspections.ts";
-import { checkFile, rejectionMessage, stepIndex, uploadFormSchema } from "../../src/features/upload/upload-logic.ts";
+import { checkFile, furthestStatus, rejectionMessage, stepIndex, uploadFormSchema } from "../../src/features/upload/upload-logic.ts";
 import { uploadFields } from "../../src/shared/schemas/captures.ts";
 import { gridRange, monthGrid, parseMonth } from "../../src/features/plan/calendar.ts";
 import { linkify } from "../../src/features/outbox/linkify.ts";
@@ -104,6 +104,13 @@ describe("upload rules", () => {
   });
   it("status steps", () => {
     expect(["received", "queued", "analysing", "analysed", "failed"].map(stepIndex)).toEqual([0, 1, 2, 3, 3]);
+  });
+  it("the status line takes the furthest step heard: a stale fetch never steps it back", () => {
+    expect(furthestStatus("received", "queued", "analysing")).toBe("analysing"); // live event ahead of the fetch
+    expect(furthestStatus("received", "analysed", "analysing")).toBe("analysed"); // refetch ahead of the last event
+    expect(furthestStatus("received", undefined, undefined)).toBe("received");
+    expect(furthestStatus("received", "failed", "analysing")).toBe("failed");
+    expect(furthestStatus("received", "analysed", "failed")).toBe("failed");
   });
 });
 

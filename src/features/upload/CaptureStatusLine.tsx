@@ -1,28 +1,25 @@
 import { Link } from "react-router-dom";
-import { useEffect } from "react";
-import { useQuery, useQueryClient } from "@tanstack/react-query";
-import { onServerEvent } from "../../lib/socket.ts";
-import type { CaptureDetail } from "../../lib/contracts.ts";
+import { useEffect, useState } from "react";
+import { useQuery } from "@tanstack/react-query";
+import { lastCaptureStatus, onServerEvent } from "../../lib/socket.ts";
 import { captureQueryOptions } from "./api/captures.ts";
-import { STATUS_STEPS, stepIndex } from "./upload-logic.ts";
+import { STATUS_STEPS, furthestStatus, stepIndex } from "./upload-logic.ts";
 import { GradeBadge } from "../../components/GradeBadge.tsx";
 
 /** Live state of one uploaded capture: steps received → queued → analysing → analysed, or failed with its reason. */
 export function CaptureStatusLine({ id, initialStatus = "received" }: { id: number; initialStatus?: string }) {
   const q = useQuery(captureQueryOptions(id));
-  const queryClient = useQueryClient();
-  // Show each step the moment its event arrives; the refetch the same event starts brings the rest (grade, error).
-  useEffect(
-    () =>
-      onServerEvent("capture:status", (e) => {
-        if (e.id !== id) return;
-        queryClient.setQueryData<CaptureDetail>(captureQueryOptions(id).queryKey, (old) =>
-          old ? { ...old, status: e.status, error: e.error ?? old.error } : old,
-        );
-      }),
-    [id, queryClient],
-  );
-  const status = q.data?.status ?? initialStatus;
+  // Show each step the moment its event arrives (also one that came before this row knew its id); the refetch
+  // the same event starts brings the rest (grade, error). A fetch that read the row just before the worker moved
+  // it on never steps the line back: a new upload only moves forward.
+  const [live, setLive] = useState(() => lastCaptureStatus(id)?.status);
+  useEffect(() => {
+    setLive(lastCaptureStatus(id)?.status);
+    return onServerEvent("capture:status", (e) => {
+      if (e.id === id) setLive(e.status);
+    });
+  }, [id]);
+  const status = furthestStatus(initialStatus, q.data?.status, live);
   const failed = status === "failed";
   const at = stepIndex(status);
   // The engine's rotor result (src/engine/types.ts BrokenBarResult): grade "R1".."R5" or null when not assessable.

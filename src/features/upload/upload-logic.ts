@@ -57,6 +57,18 @@ export function stepIndex(status: string): number {
   return i === -1 ? (status === "failed" ? 3 : 0) : i;
 }
 
+/** The furthest step among statuses heard from different sources (the fetched capture, live events). */
+export function furthestStatus(...statuses: (string | undefined)[]): string {
+  let best = "received";
+  for (const s of statuses) {
+    if (!s) continue;
+    const i = stepIndex(s);
+    const b = stepIndex(best);
+    if (i > b || (i === b && s === "failed")) best = s;
+  }
+  return best;
+}
+
 /** The form around the files: the server's upload fields (src/shared/schemas/captures.ts) plus the site picker. */
 export const uploadFormSchema = uploadFields.extend({
   siteId: z.preprocess((v) => (v === "" ? undefined : Number(v)), z.number({ message: "Pick a site." }).int().positive("Pick a site.")),
