@@ -94,6 +94,7 @@ describe("measurement point form", () => {
     expect(pointSensor({ ctRatio: 100, sensitivity: null, unit: "A" })).toBe("CT 100:1");
     expect(pointSensor({ ctRatio: null, sensitivity: 100, unit: "m/s2" })).toBe("100 mV/(m/s2)");
     expect(pointSensor({ ctRatio: null, sensitivity: 10, unit: "g" })).toBe("10 mV/g");
-    expect(pointSensor({ ctRatio: null, sensitivity: null, unit: "V" })).toBe("V");
+    expect(pointSensor({ ctRatio: null, sensitivity: null, unit: "V" })).toBe("in V");
+    expect(pointSensor({ ctRatio: null, sensitivity: null, unit: null })).toBe("");
   });
 });

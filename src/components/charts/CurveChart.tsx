@@ -35,6 +35,8 @@ export interface AnnotatedPoint {
 export interface GuideLine {
   y: number;
   label: string;
+  /** Drawn instead of `label` when the plot is too narrow for it. */
+  shortLabel?: string;
   color?: string;
   dash?: number[];
 }
@@ -240,8 +242,9 @@ function drawAnnotations(u: uPlot, p: CurveChartProps) {
     ctx.fillStyle = g.color ?? "rgba(89,92,97,0.95)";
     ctx.textAlign = "left";
     ctx.textBaseline = "bottom";
-    ctx.fillText(g.label, bbox.left + 4 * pr, y - 2 * pr);
-    taken.push({ x0: bbox.left + 4 * pr, x1: bbox.left + 4 * pr + ctx.measureText(g.label).width, y0: y - 2 * pr - textH, y1: y - 2 * pr });
+    const text = fitLabel(ctx, bbox.width - 8 * pr, g.label, g.shortLabel);
+    ctx.fillText(text, bbox.left + 4 * pr, y - 2 * pr);
+    taken.push({ x0: bbox.left + 4 * pr, x1: bbox.left + 4 * pr + ctx.measureText(text).width, y0: y - 2 * pr - textH, y1: y - 2 * pr });
   }
   // Measured dots of the series are kept clear of labels too.
   const xs0 = u.data[0] as ArrayLike<number>;
@@ -325,4 +328,15 @@ function dateTicks(splits: number[], incrS: number): string[] {
     if (incrS >= DAY_S) return dayMonth.format(d);
     return dayMonthTime.format(d);
   });
+}
+
+/** The longest of the label, its short form, or the label cut with an ellipsis that fits in `width` pixels. */
+function fitLabel(ctx: CanvasRenderingContext2D, width: number, label: string, shortLabel?: string): string {
+  for (const t of [label, shortLabel]) if (t && ctx.measureText(t).width <= width) return t;
+  const base = shortLabel ?? label;
+  for (let n = base.length - 1; n > 0; n--) {
+    const t = `${base.slice(0, n).trimEnd()}…`;
+    if (ctx.measureText(t).width <= width) return t;
+  }
+  return "";
 }

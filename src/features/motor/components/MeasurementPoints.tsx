@@ -28,26 +28,26 @@ export function MeasurementPoints({ m, canEdit }: { m: AssetDetail; canEdit: boo
       ) : (
         <ul className="flex flex-col divide-y divide-line" aria-label={`Measurement points of ${m.tag}`}>
           {m.measurementPoints.map((p) => (
-            <li key={p.id} className="flex flex-wrap items-baseline justify-between gap-x-2 gap-y-1 py-1.5">
-              <span>
-                <span className="font-medium">{p.name}</span>{" "}
-                <span className="ml-1 text-caption text-ink-muted">
-                  {kindText(p)}
-                  {positionText(p)}
-                </span>
-              </span>
-              <span className="flex items-baseline gap-1">
-                <span className="num text-caption text-ink-muted">{pointSensor(p)}</span>
+            <li key={p.id} className="flex flex-col gap-0.5 py-1.5">
+              <span className="flex items-baseline justify-between gap-2">
+                <span className="min-w-0 font-medium">{p.name}</span>
                 {canEdit && (
-                  <>
+                  <span className="flex shrink-0 items-baseline gap-1">
                     <Button size="sm" variant="ghost" aria-label={`Edit point ${p.name}`} onClick={() => setEditing(p)}>
                       Edit
                     </Button>
                     <Button size="sm" variant="ghost" className="text-danger" aria-label={`Delete point ${p.name}`} disabled={del.isPending} onClick={() => onDelete(p)}>
                       Delete
                     </Button>
-                  </>
+                  </span>
                 )}
+              </span>
+              <span className="flex flex-wrap items-baseline justify-between gap-x-2 text-caption text-ink-muted">
+                <span>
+                  {kindText(p)}
+                  {positionText(p)}
+                </span>
+                <span className="num">{pointSensor(p)}</span>
               </span>
             </li>
           ))}

@@ -75,7 +75,7 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
           yRange={[0, Math.max(115, loadMax * 1.08)]}
           guides={[
             { y: 100, label: "100 % rated" },
-            { y: 45, label: "45 % light load: rotor grade not assessable below", color: "rgba(107,77,0,0.8)" },
+            { y: 45, label: "45 % light load: rotor grade not assessable below", shortLabel: "45 % light load", color: "rgba(107,77,0,0.8)" },
           ]}
           height={220}
           label="Load percentage over time"

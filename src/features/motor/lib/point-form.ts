@@ -82,5 +82,6 @@ export const sensitivityUnit = (unit: string | null | undefined) => `mV/${!unit 
 export function pointSensor(p: Pick<MeasurementPoint, "ctRatio" | "sensitivity" | "unit">): string {
   if (p.ctRatio) return `CT ${p.ctRatio}:1`;
   if (p.sensitivity) return `${p.sensitivity} ${sensitivityUnit(p.unit)}`;
-  return p.unit ?? "";
+  // Only the unit: the capture is already in engineering units (e.g. a clamp meter's own output in A).
+  return p.unit ? `in ${p.unit}` : "";
 }
