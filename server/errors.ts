@@ -19,12 +19,19 @@ export const forbidden = (message = "Your role may not do this.") => new HttpErr
 export const unauthorized = (message = "Sign in first.") => new HttpError(401, message, undefined, "unauthorized");
 export const conflict = (message: string) => new HttpError(409, message, undefined, "conflict");
 
-/** Field path → first message, for 400 answers. */
+/**
+ * Field path → first message, for 400 answers. A field the schema does not know (a `.strict()` object) is named
+ * on its own path, e.g. `{ "colour": "Unknown field \"colour\"." }`, rather than in one message on the object.
+ */
 export function zodFields(err: ZodError): Record<string, string> {
   const out: Record<string, string> = {};
+  const put = (path: PropertyKey[], message: string) => {
+    const key = path.length ? path.map(String).join(".") : "_";
+    if (!(key in out)) out[key] = message;
+  };
   for (const issue of err.issues) {
-    const key = issue.path.length ? issue.path.join(".") : "_";
-    if (!(key in out)) out[key] = issue.message;
+    if (issue.code === "unrecognized_keys") for (const k of issue.keys) put([...issue.path, k], `Unknown field "${k}".`);
+    else put(issue.path, issue.message);
   }
   return out;
 }
@@ -36,7 +43,38 @@ export function parseOr400<T>(schema: ZodType<T>, value: unknown, what = "Invali
   return r.data;
 }
 
+/** What a parent table's row is called in a message. */
+const ROW_NAMES: Record<string, string> = {
+  sites: "site",
+  areas: "area (or its site)",
+  assets: "motor",
+  measurement_points: "measurement point",
+  users: "user",
+  gateways: "gateway",
+  captures: "capture",
+  analyses: "analysis",
+  findings: "finding",
+  inspections: "inspection",
+};
+
+/**
+ * A foreign-key violation (PostgreSQL 23503) on insert or update of a child row whose parent is not there: the
+ * parent was deleted while the request waited for its lock (a motor added while its site is deleted), or was never
+ * there. A 409 that names what is gone; null for anything else, including a delete of a row still referred to
+ * ("is still referenced from"), which the routes answer themselves.
+ */
+export function missingParent(err: unknown): HttpError | null {
+  const e = err as { code?: unknown; detail?: unknown } | null;
+  if (e?.code !== "23503" || typeof e.detail !== "string") return null;
+  const m = /is not present in table "([^"]+)"/.exec(e.detail);
+  if (!m) return null;
+  const what = ROW_NAMES[m[1]] ?? "record it refers to";
+  return conflict(`The ${what} no longer exists (it may have been deleted while this change waited). Nothing was saved.`);
+}
+
 export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  const gone = missingParent(err);
+  if (gone) err = gone;
   if (err instanceof HttpError) {
     res.status(err.status).json({ error: err.message, code: err.code, ...(err.fields ? { fields: err.fields } : {}) });
     return;

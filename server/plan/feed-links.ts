@@ -1,6 +1,7 @@
 import type { Knex } from "knex";
 import { createPrefixedToken, sha256 } from "../tokens.ts";
 import { can, isRole, type Role } from "../permissions.ts";
+import { unauthorized } from "../errors.ts";
 
 // Personal calendar feed links: a secret URL (GET /api/calendar/<token>.ics) that a calendar application fetches on
 // its own schedule, without a session. Tokens are made like gateway tokens (createPrefixedToken: "bhc_<8 hex>_<secret>",
@@ -55,14 +56,18 @@ export async function issueFeedLink(db: Knex, userId: number): Promise<{ token: 
   const { token, prefix, hash } = createPrefixedToken(FEED_TOKEN_TAG);
   return db.transaction(async (trx) => {
     // One issue at a time per user, so two clicks cannot leave two active links (the partial unique index backs this).
-    await trx("users").where({ id: userId }).forUpdate().first("id");
+    // A deactivation revokes the user's link in the transaction that updates this row: one that committed while
+    // this waited leaves the user inactive, and no new link is made for them.
+    const user = await trx("users").where({ id: userId }).forUpdate().first("id", "active");
+    if (!user?.active) throw unauthorized();
     const [old] = (await trx("calendar_feeds").where({ user_id: userId }).whereNull("revoked_at").update({ revoked_at: trx.fn.now() }).returning("token_prefix")) as { token_prefix: string }[];
     const [row] = (await trx("calendar_feeds").insert({ user_id: userId, token_prefix: prefix, token_hash: hash }).returning("*")) as FeedRow[];
     return { token, link: toLink(row), replaced: old ? `${FEED_TOKEN_TAG}_${old.token_prefix}_…` : null };
   });
 }
 
-/** Revoke the user's active link; the revoked link, or null when there was none. */
+/** Revoke the user's active link (on their request, or with their deactivation: pass its transaction); the revoked
+ * link, or null when there was none. */
 export async function revokeFeedLink(db: Knex, userId: number): Promise<FeedLink | null> {
   const [row] = (await db("calendar_feeds").where({ user_id: userId }).whereNull("revoked_at").update({ revoked_at: db.fn.now() }).returning("*")) as FeedRow[];
   return row ? toLink(row) : null;

@@ -5,6 +5,7 @@ import { guardedRouter } from "../http.ts";
 import { conflict, notFound, parseOr400, badRequest } from "../errors.ts";
 import { audit } from "../audit.ts";
 import { createUserToken } from "../tokens.ts";
+import { revokeFeedLink } from "../plan/feed-links.ts";
 
 const idParam = z.coerce.number().int().positive();
 
@@ -58,11 +59,22 @@ export function userRoutes(ctx: AppContext) {
     if (!before) throw notFound("No such user.");
     if (id === req.user!.id && (body.active === false || (body.role && body.role !== "admin")))
       throw badRequest("You cannot remove your own admin access.");
-    const [after] = await db("users").where({ id }).update({ ...body, updated_at: db.fn.now() }).returning("*");
-    if (body.role && body.role !== before.role)
-      await audit(db, { actor: req.user, action: "user.role-changed", subjectType: "user", subjectId: id, details: { from: before.role, to: body.role }, ip: req.ip });
-    if (body.active !== undefined && body.active !== before.active)
-      await audit(db, { actor: req.user, action: body.active ? "user.reactivated" : "user.deactivated", subjectType: "user", subjectId: id, ip: req.ip });
+    // One transaction: the change, its audit lines, and on deactivation the revocation of their calendar feed link
+    // (a reactivated user makes a new one). The user row is updated first, so a link being issued at the same moment
+    // (issueFeedLink locks that row) waits, then sees the user inactive and makes none.
+    const after = await db.transaction(async (trx) => {
+      const [row] = await trx("users").where({ id }).update({ ...body, updated_at: trx.fn.now() }).returning("*");
+      if (body.role && body.role !== before.role)
+        await audit(trx, { actor: req.user, action: "user.role-changed", subjectType: "user", subjectId: id, details: { from: before.role, to: body.role }, ip: req.ip });
+      if (body.active !== undefined && body.active !== before.active)
+        await audit(trx, { actor: req.user, action: body.active ? "user.reactivated" : "user.deactivated", subjectType: "user", subjectId: id, ip: req.ip });
+      if (body.active === false) {
+        const revoked = await revokeFeedLink(trx, id);
+        if (revoked)
+          await audit(trx, { actor: req.user, action: "calendar-feed.revoked", subjectType: "user", subjectId: id, details: { tokenPrefix: revoked.prefix, reason: "user deactivated" }, ip: req.ip });
+      }
+      return row;
+    });
     // Their open browser sockets are closed now (on every server process): a deactivated user receives nothing
     // more, and after a role change the browser reconnects into the rooms of the new role.
     const disconnectUser = ctx.services.disconnectUser as ((id: number, reason: "deactivated" | "role-changed") => void) | undefined;

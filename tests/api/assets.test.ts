@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import request from "supertest";
-import { demoUser, makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
+import { demoUser, makeTestEnv, signedIn, waitForLockWait, type TestEnv } from "../helpers/context.ts";
 import { routeRegistry } from "../../server/http.ts";
 import { ROLES, can } from "../../server/permissions.ts";
 
@@ -84,6 +84,59 @@ describe("editing and deleting sites and areas", () => {
     expect(bad.status).toBe(400);
     expect(bad.body.fields.timezone).toMatch(/time zone/);
     expect((await env.db("sites").where({ id: s.id }).first()).timezone).toBe("America/Chicago");
+  });
+
+  it("refuses fields it does not know on site and area create and edit (400 naming the field), changing nothing", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const s = await newSite(admin, "U", ["Pump house"], "America/Chicago");
+    const unknown = (res: request.Response, field: string) => {
+      expect(res.status).toBe(400);
+      expect(res.body).toEqual({ error: "Invalid request", code: "bad-request", fields: { [field]: `Unknown field "${field}".` } });
+    };
+    unknown(await admin.patch(`/api/sites/${s.id}`).send({ name: "Renamed", timeZone: "Europe/Oslo" }), "timeZone");
+    expect(await env.db("sites").where({ id: s.id }).first()).toMatchObject({ name: "Works U", timezone: "America/Chicago" });
+    unknown(await admin.post("/api/sites").send({ code: `U2${sfx}`, name: "Works U2", colour: "red" }), "colour");
+    expect(await env.db("sites").where({ code: `U2${sfx}` }).first()).toBeUndefined();
+    unknown(await admin.post(`/api/sites/${s.id}/areas`).send({ name: "Annex", siteId: 1 }), "siteId");
+    unknown(await admin.patch(`/api/areas/${s.areas["Pump house"]}`).send({ name: "Pump hall", site_id: 1 }), "site_id");
+    expect((await env.db("areas").where({ site_id: s.id })).map((a) => a.name)).toEqual(["Pump house"]);
+    // Known and unknown problems together: each on its field.
+    const both = await admin.patch(`/api/sites/${s.id}`).send({ timezone: "Mars/Base", nmae: "x" });
+    expect(both.body.fields).toEqual({ timezone: expect.stringMatching(/time zone/), nmae: 'Unknown field "nmae".' });
+    expect((await auditOf(admin, "site", s.id)).map((a) => a.action)).toEqual(["site.created"]);
+  });
+
+  it("a motor or an area added while its site is being deleted gets a 409 naming what is gone, not a 500", async () => {
+    const admin = await signedIn(env.app, "admin");
+    for (const what of ["area", "motor"] as const) {
+      const s = await newSite(admin, what === "area" ? "RA" : "RM", ["Pump house"]);
+      // The site's deletion in progress: its transaction holds the site and area rows, as DELETE /api/sites/:id does.
+      const trx = await env.db.transaction();
+      let adding: Promise<request.Response> | undefined;
+      try {
+        await trx("sites").where({ id: s.id }).delete(); // its areas go with it (ON DELETE CASCADE)
+        adding = (
+          what === "area"
+            ? admin.post(`/api/sites/${s.id}/areas`).send({ name: "Annex" })
+            : admin.post("/api/assets").send(motor({ tag: `R-${sfx}-1`, areaId: s.areas["Pump house"] }))
+        ).then((r) => r); // its checks still see the site: the insert's foreign-key check waits for the lock
+        await waitForLockWait(env.db, what === "area" ? 'insert into "areas"%' : 'insert into "assets"%');
+        await trx.commit();
+        const res = await adding;
+        expect(res.status).toBe(409);
+        expect(res.body).toEqual({
+          error: `The ${what === "area" ? "site" : "area (or its site)"} no longer exists (it may have been deleted while this change waited). Nothing was saved.`,
+          code: "conflict",
+        });
+      } finally {
+        if (!trx.isCompleted()) await trx.rollback();
+        await adding?.catch(() => undefined);
+      }
+      expect(await env.db("areas").where({ site_id: s.id })).toEqual([]);
+      expect(await env.db("assets").where({ tag: `R-${sfx}-1` }).first()).toBeUndefined();
+      expect(await env.db("audit_log").where({ action: "area.created" }).whereRaw("details->>'siteId' = ? and details->>'name' = 'Annex'", [String(s.id)])).toEqual([]);
+      expect(await env.db("audit_log").where({ action: "asset.created" }).whereRaw("details->>'tag' = ?", [`R-${sfx}-1`])).toEqual([]);
+    }
   });
 
   it("deletes an empty area and audits it; an unknown area is a 404", async () => {

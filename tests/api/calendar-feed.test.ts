@@ -1,11 +1,12 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import crypto from "node:crypto";
 import request from "supertest";
-import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
+import { demoUser, makeTestEnv, signedIn, waitForLockWait, type TestEnv } from "../helpers/context.ts";
 import { contentLines, vevents } from "../helpers/ics.ts";
 import { hashPassword } from "../../server/auth.ts";
 import { routeRegistry } from "../../server/http.ts";
 import type { Role } from "../../server/permissions.ts";
+import { up } from "../../migrations/20261202_010_revoke_inactive_feeds.ts";
 
 // Calendar subscription: a personal feed link per user, fetched without a session by a calendar application.
 // Fixture rows carry the tag prefix "CALF-" and the users the e-mail suffix "calfeed", so they do not meet
@@ -226,25 +227,95 @@ describe("who may subscribe, checked at every fetch", () => {
     }
   });
 
-  it("refuses the feed of a deactivated user, and serves it again once reactivated", async () => {
+  it("deactivating a user revokes their link (audited): it answers as a revoked link, also after reactivation", async () => {
     const admin = await signedIn(env.app, "admin");
     const techA = await signIn("techA");
     const link = await createLink(techA);
     expect((await fetchFeed(link.url)).status).toBe(200);
-    const usedAt = (await env.db("calendar_feeds").where({ user_id: ids.techA }).whereNull("revoked_at").first()).last_used_at;
+    const hash = crypto.createHash("sha256").update(link.token).digest("hex");
 
-    expect((await admin.patch(`/api/users/${ids.techA}`).send({ active: false })).status).toBe(200);
+    const deactivated = await admin.patch(`/api/users/${ids.techA}`).send({ active: false });
+    expect(deactivated.status).toBe(200);
+    try {
+      const refused = await fetchFeed(link.url);
+      expect(refused.status).toBe(404);
+      expect(refused.text).not.toContain("BEGIN:VCALENDAR");
+      expect(refused.body).toEqual({ error: "No such calendar.", code: "not-found" }); // what a revoked link answers
+      const row = await env.db("calendar_feeds").where({ token_hash: hash }).first();
+      expect(row.revoked_at).not.toBeNull();
+      expect(await env.db("calendar_feeds").where({ user_id: ids.techA }).whereNull("revoked_at")).toEqual([]);
+      const trail = await env.db("audit_log").where({ subject_type: "user", subject_id: String(ids.techA) }).orderBy("id", "desc").limit(2);
+      expect(trail.map((a) => a.action)).toEqual(["calendar-feed.revoked", "user.deactivated"]);
+      expect(trail[0]).toMatchObject({ actor_label: demoUser("admin").email, details: { tokenPrefix: link.link.prefix, reason: "user deactivated" } });
+
+      // Deactivating again finds no link: nothing more is revoked or audited.
+      const revokedBefore = await env.db("audit_log").where({ action: "calendar-feed.revoked", subject_id: String(ids.techA) }).count({ n: "*" });
+      expect((await admin.patch(`/api/users/${ids.techA}`).send({ active: false })).status).toBe(200);
+      expect(await env.db("audit_log").where({ action: "calendar-feed.revoked", subject_id: String(ids.techA) }).count({ n: "*" })).toEqual(revokedBefore);
+    } finally {
+      expect((await admin.patch(`/api/users/${ids.techA}`).send({ active: true })).status).toBe(200);
+    }
+    // Reactivated, the old link stays dead; they make a new one.
+    const after = await fetchFeed(link.url);
+    expect(after.status).toBe(404);
+    expect(after.body).toEqual({ error: "No such calendar.", code: "not-found" });
+    const again = await signIn("techA");
+    expect((await again.get("/api/calendar-feed")).body).toEqual({ scope: "assigned", link: null });
+    const fresh = await createLink(again);
+    expect(fresh.token).not.toBe(link.token);
+    expect((await fetchFeed(fresh.url)).status).toBe(200);
+  });
+
+  it("a link made outside the API for a deactivated user is still refused (403) while they are inactive", async () => {
+    const techB = await signIn("techB");
+    const link = await createLink(techB);
+    await env.db("users").where({ id: ids.techB }).update({ active: false }); // not through the API: nothing revoked
     try {
       const refused = await fetchFeed(link.url);
       expect(refused.status).toBe(403);
       expect(refused.text).not.toContain("BEGIN:VCALENDAR");
       expect(refused.body.error).toMatch(/can no longer be used/);
-      const row = await env.db("calendar_feeds").where({ user_id: ids.techA }).whereNull("revoked_at").first();
-      expect(row.last_used_at).toEqual(usedAt); // a refused fetch is not a use
     } finally {
-      expect((await admin.patch(`/api/users/${ids.techA}`).send({ active: true })).status).toBe(200);
+      await env.db("users").where({ id: ids.techB }).update({ active: true });
     }
     expect((await fetchFeed(link.url)).status).toBe(200);
+  });
+
+  it("the migration revokes links of users who were inactive before deactivation revoked them", async () => {
+    const techB = await signIn("techB");
+    const link = await createLink(techB);
+    const other = await createLink(await signIn("techA")); // an active user's link is left alone
+    await env.db("users").where({ id: ids.techB }).update({ active: false });
+    try {
+      await up(env.db);
+    } finally {
+      await env.db("users").where({ id: ids.techB }).update({ active: true });
+    }
+    expect((await fetchFeed(link.url)).status).toBe(404);
+    expect((await fetchFeed(other.url)).status).toBe(200);
+  });
+
+  it("a link asked for while the user is being deactivated is not made (the issue waits for the deactivation)", async () => {
+    const admin = await signedIn(env.app, "admin");
+    const techB = await signIn("techB");
+    await techB.delete("/api/calendar-feed");
+    // An admin's deactivation in progress: its transaction holds the user row, as PATCH /users/:id does.
+    const trx = await env.db.transaction();
+    let issuing: Promise<request.Response> | undefined;
+    try {
+      await trx("users").where({ id: ids.techB }).update({ active: false });
+      issuing = techB.post("/api/calendar-feed").send({}).then((r) => r); // the session still sees the user active
+      await waitForLockWait(env.db, 'select "id", "active" from "users"%for update');
+      await trx.commit();
+      const res = await issuing;
+      expect(res.status).toBe(401);
+      expect(res.body.token).toBeUndefined();
+      expect(await env.db("calendar_feeds").where({ user_id: ids.techB }).whereNull("revoked_at")).toEqual([]);
+    } finally {
+      if (!trx.isCompleted()) await trx.rollback();
+      await issuing?.catch(() => undefined);
+      expect((await admin.patch(`/api/users/${ids.techB}`).send({ active: true })).status).toBe(200);
+    }
   });
 
   it("follows the owner's current role: refused without a plan-reading role, re-scoped on a change", async () => {

@@ -63,3 +63,20 @@ export async function waitForMail(db: Knex, to: string, subjectLike = "%", timeo
   }
   throw new Error(`no mail to ${to} within ${timeoutMs} ms`);
 }
+
+/**
+ * Wait until a statement matching `queryLike` (SQL ILIKE) waits for a lock in another session: for race tests that
+ * hold a lock in a transaction, fire a request, and let go only once the request's statement is queued behind it.
+ */
+export async function waitForLockWait(db: Knex, queryLike: string, timeoutMs = 5000) {
+  const until = Date.now() + timeoutMs;
+  while (Date.now() < until) {
+    const { rows } = await db.raw(
+      "select count(*)::int as n from pg_stat_activity where datname = current_database() and wait_event_type = 'Lock' and query ilike ?",
+      [queryLike],
+    );
+    if (rows[0].n > 0) return;
+    await new Promise((r) => setTimeout(r, 20));
+  }
+  throw new Error(`no statement like ${queryLike} waited for a lock within ${timeoutMs} ms`);
+}

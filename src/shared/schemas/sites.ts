@@ -1,5 +1,6 @@
 // Sites and areas (admin): the request bodies of POST/PATCH /api/sites and POST /api/sites/:id/areas, PATCH /api/areas/:id
-// (DELETE /api/sites/:id and /api/areas/:id take no body).
+// (DELETE /api/sites/:id and /api/areas/:id take no body). A field they do not know is refused (.strict(): a 400 that
+// names it), so a misspelt field is not silently dropped.
 import { z } from "zod";
 
 /** An IANA time zone name the runtime knows (Intl is in every browser and in Node). */
@@ -28,11 +29,11 @@ const siteFields = {
     .refine((tz) => tz === "" || isTimeZone(tz), "Not a known time zone (use an IANA name such as Europe/Berlin)."),
 };
 
-export const siteBody = z.object({ ...siteFields, timezone: siteFields.timezone.default("UTC") });
+export const siteBody = z.object({ ...siteFields, timezone: siteFields.timezone.default("UTC") }).strict();
 export type SiteBody = z.output<typeof siteBody>;
 
 /** Editing: any of the fields, none required; an omitted field stays as it is (no default here, or an edit of the
  * name alone would reset the time zone to UTC). */
-export const sitePatchBody = z.object(siteFields).partial();
+export const sitePatchBody = z.object(siteFields).partial().strict();
 
-export const areaBody = z.object({ name: z.string({ message: "Give the area a name." }).trim().min(1, "Give the area a name.").max(200, "Keep the name under 200 characters.") });
+export const areaBody = z.object({ name: z.string({ message: "Give the area a name." }).trim().min(1, "Give the area a name.").max(200, "Keep the name under 200 characters.") }).strict();

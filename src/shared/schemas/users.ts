@@ -12,6 +12,8 @@ export const inviteBody = z.object({
 });
 export type InviteBody = z.output<typeof inviteBody>;
 
+/** A field it does not know is refused (a 400 that names it), not dropped. */
 export const userPatchBody = z
   .object({ role: role.optional(), active: z.boolean({ message: "Active is true or false." }).optional(), name: userName.optional() })
+  .strict()
   .refine((b) => Object.keys(b).length > 0, "Nothing to change.");
