@@ -327,12 +327,17 @@ function abandonment(old: GatewayState, outcome: AbortOutcome): string {
       return `the interrupted ${was} was already abandoned on the server`;
     case "unsupported":
       return `not resuming the interrupted ${was}; this server cannot abandon it (${outcome.detail.replace(/\.$/, "")}), so the old session is left to the server's 48 h sweep`;
-    case "refused":
-      if (outcome.error.code === "unknown-session")
-        return `not resuming the interrupted ${was}; the server does not know it (begun with another gateway's token, or removed)`;
-      if (outcome.error.code === "session-closed" && typeof outcome.error.captureId === "number")
-        return `the interrupted ${was} had already ended on the server as capture ${outcome.error.captureId}, which stays`;
+    case "refused": {
+      // Decided on code and reason (protocol.ts), never on the server's words, which are only shown. An older server
+      // without reasons names the capture of an ended session in captureId, which is as good.
+      const { code, reason, captureId } = outcome.error;
+      if (code === "unknown-session") return `not resuming the interrupted ${was}; the server does not know it (begun with another gateway's token, or removed)`;
+      if (code === "session-closed" && (reason === "ended" || (reason === undefined && typeof captureId === "number")))
+        return `the interrupted ${was} had already ended on the server${typeof captureId === "number" ? ` as capture ${captureId}` : ""}, which stays`;
+      if (code === "session-closed" && reason === "ended-capture-deleted")
+        return `the interrupted ${was} had already ended on the server; its capture has since been deleted`;
       return `not resuming the interrupted ${was}; the server did not abandon it (${outcome.error.message.replace(/\.$/, "")})`;
+    }
   }
 }
 
@@ -340,6 +345,7 @@ function abandonment(old: GatewayState, outcome: AbortOutcome): string {
 function resumeRefusal(saved: GatewayState, error: StreamError, nowPrefix: string | null): string {
   const id = saved.sessionId;
   const then = `${saved.ackedChunks} of ${saved.totalChunks} chunks were acknowledged`;
+  const general = `the server cannot resume the interrupted stream ${id} (${error.message.replace(/\.$/, "")}); starting a new stream.`;
   switch (error.code) {
     case "unknown-session": {
       const other = saved.tokenPrefix && nowPrefix && saved.tokenPrefix !== nowPrefix;
@@ -349,12 +355,18 @@ function resumeRefusal(saved: GatewayState, error: StreamError, nowPrefix: strin
       return `the server does not know the interrupted stream ${id} (${why}); starting a new stream.`;
     }
     case "session-closed":
-      if (/deleted/.test(error.message)) return `the server finished the interrupted stream ${id}, but its capture has since been deleted; starting a new stream.`;
-      if (/abandoned by the gateway/.test(error.message))
-        return `the interrupted stream ${id} was abandoned by a gateway run that started over (${then}); starting a new stream.`;
-      return `the server has given up the interrupted stream ${id} (no progress for too long; ${then}); starting a new stream.`;
+      // Decided on the reason only (protocol.ts); an older server without one gets the general line below.
+      switch (error.reason) {
+        case "ended-capture-deleted":
+          return `the server finished the interrupted stream ${id}, but its capture has since been deleted; starting a new stream.`;
+        case "aborted-by-gateway":
+          return `the interrupted stream ${id} was abandoned by a gateway run that started over (${then}); starting a new stream.`;
+        case "aborted-by-sweep":
+          return `the server has given up the interrupted stream ${id} (no progress for too long; ${then}); starting a new stream.`;
+      }
+      return general;
     default:
-      return `the server cannot resume the interrupted stream ${id} (${error.message.replace(/\.$/, "")}); starting a new stream.`;
+      return general;
   }
 }
 

@@ -21,12 +21,14 @@ import {
   type EndAck,
   type StreamError,
   type StreamErrorCode,
+  type StreamErrorReasonOf,
 } from "./protocol.ts";
 import { gatewayFromToken, type GatewayRow } from "./tokens.ts";
 import {
   abandonStaleSessions,
   abandonedText,
   abortSession,
+  closedReason,
   createSession,
   getSession,
   readFrames,
@@ -45,12 +47,15 @@ export const gatewayRoom = (gatewayId: number) => `gateway:${gatewayId}`;
 /** An open session untouched this long is abandoned (its part file deleted); a gateway resumes well within it. */
 export const STALE_SESSION_HOURS = 48;
 
-/** A refusal that becomes a stream:error event and an error acknowledgement. */
-class StreamRefusal extends Error {
+/**
+ * A refusal that becomes a stream:error event and an error acknowledgement. A gateway acts on `code` and `extra.reason`
+ * (typed per code), never on the message, so the message may be reworded freely.
+ */
+class StreamRefusal<C extends StreamErrorCode = StreamErrorCode> extends Error {
   constructor(
-    public code: StreamErrorCode,
+    public code: C,
     message: string,
-    public extra: Partial<StreamError> = {},
+    public extra: Omit<Partial<StreamError>, "code" | "reason" | "message"> & { reason?: StreamErrorReasonOf<C> } = {},
   ) {
     super(message);
   }
@@ -169,6 +174,7 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
         throw new StreamRefusal(
           "session-closed",
           `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}; send "begin" without resumeSessionId to start again.`,
+          { reason: closedReason(s) },
         );
       const same =
         s.sample_format === msg.sampleFormat && s.sample_rate === msg.sampleRate && s.channels.length === msg.channels.length && s.asset_id === msg.assetId;
@@ -185,12 +191,14 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
     }
 
     const asset = await db("assets as a").join("areas as ar", "ar.id", "a.area_id").where("a.id", msg.assetId).first("a.id", "a.tag", "ar.site_id");
-    if (!asset) throw new StreamRefusal("unknown-asset", `There is no motor with id ${msg.assetId}. Check the asset id configured on the gateway.`);
+    if (!asset)
+      throw new StreamRefusal("unknown-asset", `There is no motor with id ${msg.assetId}. Check the asset id configured on the gateway.`, { reason: "unknown-motor" });
     if (gateway.site_id !== null && asset.site_id !== gateway.site_id)
       throw new StreamRefusal("wrong-site", `Motor ${asset.tag} is not on this gateway's site; a gateway may only stream captures for motors on its own site.`);
     if (msg.measurementPointId !== undefined) {
       const point = await db("measurement_points").where({ id: msg.measurementPointId, asset_id: msg.assetId }).first("id");
-      if (!point) throw new StreamRefusal("unknown-asset", `Measurement point ${msg.measurementPointId} does not belong to motor ${asset.tag}.`);
+      if (!point)
+        throw new StreamRefusal("unknown-asset", `Measurement point ${msg.measurementPointId} does not belong to motor ${asset.tag}.`, { reason: "unknown-point" });
     }
     const s = await createSession(db, config, {
       gatewayId: gateway.id,
@@ -211,8 +219,9 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
     const data = toBuffer(r.data.data);
     return serial(sessionId, async () => {
       const s = await ownSession(gateway, sessionId);
-      if (s.status === "aborted") throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}; it takes no more chunks.`, { seq });
-      if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} has ended; it takes no more chunks.`, { seq });
+      if (s.status === "aborted")
+        throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}; it takes no more chunks.`, { seq, reason: closedReason(s) });
+      if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} has ended; it takes no more chunks.`, { seq, reason: closedReason(s) });
       // A resend of a chunk already stored (its ack was lost with the connection): acknowledge it again, store nothing.
       if (seq < s.next_seq) return { seq, duplicate: true };
       if (seq > s.next_seq)
@@ -222,7 +231,8 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
           { seq, nextSeq: s.next_seq },
         );
       const fb = frameBytes(s.channels.length, s.sample_format);
-      if (data.length === 0) throw new StreamRefusal("bad-frame", `Chunk ${seq} is empty; every chunk must hold at least one frame (${fb} bytes).`, { seq });
+      if (data.length === 0)
+        throw new StreamRefusal("bad-frame", `Chunk ${seq} is empty; every chunk must hold at least one frame (${fb} bytes).`, { seq, reason: "empty-chunk" });
       if (data.length > MAX_CHUNK_BYTES)
         throw new StreamRefusal("chunk-too-large", `Chunk ${seq} holds ${data.length} bytes; the largest chunk accepted is ${MAX_CHUNK_BYTES} bytes.`, { seq });
       if (data.length % fb !== 0)
@@ -230,7 +240,7 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
           "bad-frame",
           `Chunk ${seq} holds ${data.length} bytes, which is not a whole number of frames: a frame is ${s.channels.length} channel(s) × ` +
             `${fb / s.channels.length} bytes (${s.sample_format}) = ${fb} bytes. Split chunks on frame boundaries.`,
-          { seq, nextSeq: s.next_seq },
+          { seq, nextSeq: s.next_seq, reason: "partial-frame" },
         );
       await writeChunkAt(config, s.id, s.bytes_received, data);
       // If another connection stored this chunk in the meantime, it wrote the same bytes at the same offset.
@@ -240,7 +250,10 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
         const now = await getSession(db, s.id);
         if (now?.status === "aborted") {
           await removePart(config, s.id).catch(() => {});
-          throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(now, STALE_SESSION_HOURS)}; it takes no more chunks.`, { seq });
+          throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(now, STALE_SESSION_HOURS)}; it takes no more chunks.`, {
+            seq,
+            reason: closedReason(now),
+          });
         }
       }
       return advanced ? { seq } : { seq, duplicate: true };
@@ -259,11 +272,12 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
       const result = await db.transaction(async (trx) => {
         const s = (await getSession(trx, sessionId, { forUpdate: true }))!;
         if (s.status === "ended") {
-          if (s.capture_id === null) throw new StreamRefusal("session-closed", `Stream session ${s.id} has ended, but its capture was deleted.`);
+          if (s.capture_id === null)
+            throw new StreamRefusal("session-closed", `Stream session ${s.id} has ended, but its capture was deleted.`, { reason: "ended-capture-deleted" });
           const cap = await trx("captures").where({ id: s.capture_id }).first("status");
           return { captureId: s.capture_id, status: String(cap?.status ?? "received"), ended: false };
         }
-        if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}.`);
+        if (s.status !== "open") throw new StreamRefusal("session-closed", `Stream session ${s.id} ${abandonedText(s, STALE_SESSION_HOURS)}.`, { reason: closedReason(s) });
         if (totalChunks !== s.next_seq)
           throw new StreamRefusal(
             "incomplete",
@@ -316,7 +330,7 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
           before.capture_id === null
             ? `Stream session ${sessionId} has ended (its capture was since deleted); there is nothing to abort.`
             : `Stream session ${sessionId} has ended as capture ${before.capture_id}; it cannot be aborted (the capture stays; delete it in Barhound if it is not wanted).`,
-          { captureId: before.capture_id },
+          { captureId: before.capture_id, reason: closedReason(before) },
         );
       return before.status === "aborted" ? { sessionId, status: "aborted", alreadyAborted: true } : { sessionId, status: "aborted" };
     });

@@ -16,9 +16,11 @@
 //   abort { sessionId, reason? }                    the gateway will not finish this open session: its stored frames are
 //     → { sessionId, status: "aborted", alreadyAborted? }   deleted and it cannot be resumed (optional: older servers lack it)
 //
-// When a request is refused the server emits `stream:error { code, message, sessionId?, seq?, nextSeq? }`
-// and answers the acknowledgement with `{ error: { code, message, nextSeq? } }`, so a gateway waiting on the
-// ack is never left hanging; an event the server does not know is answered with code "unknown-event".
+// When a request is refused the server emits `stream:error { code, reason?, message, sessionId?, seq?, nextSeq? }`
+// and answers the acknowledgement with `{ error: { code, reason?, message, nextSeq? } }`, so a gateway waiting on the
+// ack is never left hanging; an event the server does not know is answered with code "unknown-event". `code` and
+// `reason` (STREAM_ERROR_REASONS: which case of a code that covers several) are what a gateway decides on; `message`
+// is for people and may be reworded at any time.
 //
 // A refused handshake is a connect_error with `data: { code: "unauthorized", reason }`, reason one of
 // CONNECT_REFUSALS (older servers send no reason).
@@ -111,8 +113,47 @@ export type StreamErrorCode =
   | "busy"
   | "server";
 
+/**
+ * Which case a refusal is, for the codes that cover several (like connect_error `data.reason` beside `data.code`);
+ * a gateway decides on `code`, then on `reason`, never on the words of `message`. Older servers send no `reason`.
+ */
+export const STREAM_ERROR_REASONS = {
+  "session-closed": [
+    /** The gateway sent "abort" for it (this run or an earlier one): its frames are deleted. */
+    "aborted-by-gateway",
+    /** Untouched for 48 h, the server's sweep gave it up: its frames are deleted. */
+    "aborted-by-sweep",
+    /** It ended as a capture (`captureId`), which stays. */
+    "ended",
+    /** It ended as a capture that has since been deleted (`captureId` null). */
+    "ended-capture-deleted",
+  ],
+  "unknown-asset": [
+    /** No motor with that assetId. */
+    "unknown-motor",
+    /** The measurementPointId is not one of the motor's points. */
+    "unknown-point",
+  ],
+  "bad-frame": [
+    /** The chunk holds no bytes. */
+    "empty-chunk",
+    /** The chunk's length is not a whole number of frames. */
+    "partial-frame",
+  ],
+  /** At connect (stream-client.ts): connect_error `data.reason` of a token to check. */
+  "unknown-token": ["missing-token", "malformed-token", "unknown-token"],
+} as const satisfies Partial<Record<StreamErrorCode, readonly string[]>>;
+
+type CodesWithReasons = keyof typeof STREAM_ERROR_REASONS;
+/** The reasons a refusal with code C may carry (never, for a code with one case). */
+export type StreamErrorReasonOf<C extends StreamErrorCode> = C extends CodesWithReasons ? (typeof STREAM_ERROR_REASONS)[C][number] : never;
+export type StreamErrorReason = StreamErrorReasonOf<StreamErrorCode>;
+export type SessionClosedReason = StreamErrorReasonOf<"session-closed">;
+
 export interface StreamError {
   code: StreamErrorCode;
+  /** Which case of `code` this is, for the codes in STREAM_ERROR_REASONS (older servers leave it out). */
+  reason?: StreamErrorReason;
   message: string;
   sessionId?: string;
   seq?: number;

@@ -12,7 +12,7 @@ import { constants as fsConstants } from "node:fs";
 import path from "node:path";
 import type { Knex } from "knex";
 import type { Config } from "../config.ts";
-import type { SampleFormat, StreamChannel } from "./protocol.ts";
+import type { SampleFormat, SessionClosedReason, StreamChannel } from "./protocol.ts";
 
 export interface StreamSession {
   id: string;
@@ -164,4 +164,10 @@ export async function abortSession(db: Knex, config: Config, sessionId: string, 
 export function abandonedText(s: Pick<StreamSession, "aborted_by" | "abort_reason">, staleHours: number): string {
   if (s.aborted_by === "gateway") return `was abandoned by the gateway${s.abort_reason ? ` (${s.abort_reason})` : ""}`;
   return `was abandoned after ${staleHours} h without progress`;
+}
+
+/** The stable `reason` of a "session-closed" refusal of a session that is no longer open (protocol.ts). */
+export function closedReason(s: Pick<StreamSession, "status" | "aborted_by" | "capture_id">): SessionClosedReason {
+  if (s.status === "aborted") return s.aborted_by === "gateway" ? "aborted-by-gateway" : "aborted-by-sweep";
+  return s.capture_id === null ? "ended-capture-deleted" : "ended";
 }

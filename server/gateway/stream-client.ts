@@ -22,6 +22,7 @@ import {
   type StreamChannel,
   type ConnectRefusal,
   type StreamError,
+  type StreamErrorReasonOf,
 } from "./protocol.ts";
 
 export interface StreamCaptureOptions {
@@ -90,7 +91,10 @@ export type AbortOutcome =
   | { sessionId: string; result: "aborted" | "already-aborted" }
   /** An older server without "abort" (it said the event is unknown, or did not answer): the session is left to its sweep. */
   | { sessionId: string; result: "unsupported"; detail: string }
-  /** Refused: another gateway's or a removed session ("unknown-session"), or one that ended ("session-closed", captureId). */
+  /**
+   * Refused: another gateway's or a removed session ("unknown-session"), or one that ended ("session-closed" with reason
+   * "ended" and its captureId, or "ended-capture-deleted").
+   */
   | { sessionId: string; result: "refused"; error: StreamError };
 
 /** The server refused something; retrying the same thing will not help. */
@@ -285,7 +289,9 @@ function connected(socket: Socket): Promise<void> {
       if (err.data?.code === "unauthorized") {
         const reason = err.data.reason as ConnectRefusal | undefined;
         const code = reason && Object.hasOwn(REFUSAL_CODES, reason) ? REFUSAL_CODES[reason] : "unauthorized";
-        reject(new StreamRefused({ code, message: err.message }));
+        // The server's reason stays as the case of "unknown-token" (only missing-, malformed- and unknown-token map to it).
+        const refused: StreamError = { code, ...(code === "unknown-token" ? { reason: reason as StreamErrorReasonOf<"unknown-token"> } : {}), message: err.message };
+        reject(new StreamRefused(refused));
       } else reject(new ConnectionLost(`Could not connect to the server (${err.message})`));
     });
   });

@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import crypto from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
@@ -16,7 +17,7 @@ import http from "node:http";
 import { Server as IoServer } from "socket.io";
 import { streamCapture, StreamRefused, type AbortOutcome } from "../../server/gateway/stream-client.ts";
 import { abandonStaleSessions, partPath } from "../../server/gateway/session-store.ts";
-import type { StreamError } from "../../server/gateway/protocol.ts";
+import { MAX_CHUNK_BYTES, STREAM_ERROR_REASONS, type StreamError, type StreamErrorCode, type StreamErrorReason } from "../../server/gateway/protocol.ts";
 
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "bh-gateway-"));
 const jobs: AnalysisJobData[] = [];
@@ -64,6 +65,20 @@ function rawGateway(tok: string | undefined): Promise<Socket> {
     socket.once("connect", () => resolve(socket));
     socket.once("connect_error", reject);
   });
+}
+
+/**
+ * The refusal in an ack: its code and its reason (one the protocol declares for that code, or none for a code with one
+ * case). The gateway decides on these two only, so every refusal case is pinned here, not by its words.
+ */
+function refusal(answer: { error?: StreamError }, code: StreamErrorCode, reason?: StreamErrorReason): StreamError {
+  expect(answer.error, JSON.stringify(answer)).toMatchObject({ code, message: expect.any(String) });
+  if (reason === undefined) expect(answer.error).not.toHaveProperty("reason");
+  else {
+    expect(answer.error!.reason).toBe(reason);
+    expect(STREAM_ERROR_REASONS[code as keyof typeof STREAM_ERROR_REASONS] as readonly string[]).toContain(reason);
+  }
+  return answer.error!;
 }
 
 const f32 = (...values: number[]) => Buffer.from(new Float32Array(values).buffer);
@@ -218,33 +233,50 @@ describe("streamed captures", () => {
     await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 10) });
 
     const gap = await socket.emitWithAck("chunk", { sessionId, seq: 2, data: frames3(0, 10) });
-    expect(gap.error).toMatchObject({ code: "gap", sessionId, seq: 2, nextSeq: 1 });
+    expect(refusal(gap, "gap")).toMatchObject({ sessionId, seq: 2, nextSeq: 1 });
     expect(gap.error.message).toMatch(/Chunk 2 arrived but chunk 1 is the next one expected/);
 
     const bad = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: Buffer.alloc(13) });
-    expect(bad.error).toMatchObject({ code: "bad-frame", sessionId, seq: 1 });
+    expect(refusal(bad, "bad-frame", "partial-frame")).toMatchObject({ sessionId, seq: 1 });
     expect(bad.error.message).toMatch(/Chunk 1 holds 13 bytes, which is not a whole number of frames.*3 channel\(s\) × 4 bytes \(f32le\) = 12 bytes/);
 
+    const empty = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: Buffer.alloc(0) });
+    expect(refusal(empty, "bad-frame", "empty-chunk")).toMatchObject({ sessionId, seq: 1, message: expect.stringMatching(/Chunk 1 is empty/) });
+    const huge = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: Buffer.alloc(MAX_CHUNK_BYTES + 12) });
+    expect(refusal(huge, "chunk-too-large")).toMatchObject({ sessionId, seq: 1 });
+
     const early = await socket.emitWithAck("end", { sessionId, totalChunks: 3 });
-    expect(early.error).toMatchObject({ code: "incomplete", nextSeq: 1 });
+    expect(refusal(early, "incomplete")).toMatchObject({ nextSeq: 1 });
     await sleep(50);
-    expect(errors.map((e) => e.code)).toEqual(["gap", "bad-frame", "incomplete"]);
+    // The stream:error events carry the same code and reason as the acks.
+    expect(errors.map((e) => [e.code, e.reason])).toEqual([
+      ["gap", undefined],
+      ["bad-frame", "partial-frame"],
+      ["bad-frame", "empty-chunk"],
+      ["chunk-too-large", undefined],
+      ["incomplete", undefined],
+    ]);
     const row = await env.db("stream_sessions").where({ id: sessionId }).first();
     expect(row).toMatchObject({ next_seq: 1, status: "open", capture_id: null });
     expect(Number(row.bytes_received)).toBe(120);
   });
 
-  it("refuses bad begins: unknown motor, a motor on another site, another gateway's session, a fractional rate", async () => {
+  it("refuses bad begins: unknown motor or point, a motor on another site, another gateway's session, a fractional rate", async () => {
     const socket = await rawGateway(token);
     const base = { sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
-    expect((await socket.emitWithAck("begin", { ...base, assetId: 999999 })).error).toMatchObject({ code: "unknown-asset" });
-    expect((await socket.emitWithAck("begin", { ...base, assetId: otherSiteMotor.assetId })).error).toMatchObject({ code: "wrong-site" });
-    expect((await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, sampleRate: 999.5 })).error.message).toMatch(/whole number of Hz/);
+    refusal(await socket.emitWithAck("begin", { ...base, assetId: 999999 }), "unknown-asset", "unknown-motor");
+    refusal(await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, measurementPointId: otherSiteMotor.pointId }), "unknown-asset", "unknown-point");
+    refusal(await socket.emitWithAck("begin", { ...base, assetId: otherSiteMotor.assetId }), "wrong-site");
+    expect(refusal(await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, sampleRate: 999.5 }), "bad-request").message).toMatch(/whole number of Hz/);
     const other = await newGateway("Second gateway");
     const otherSocket = await rawGateway(other.token);
     const { sessionId } = await otherSocket.emitWithAck("begin", { ...base, assetId: motor.assetId });
-    expect((await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, resumeSessionId: sessionId })).error).toMatchObject({ code: "unknown-session" });
-    expect((await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 1) })).error).toMatchObject({ code: "unknown-session" });
+    refusal(await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, resumeSessionId: sessionId }), "unknown-session");
+    refusal(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 1) }), "unknown-session");
+    refusal(await socket.emitWithAck("end", { sessionId, totalChunks: 0 }), "unknown-session");
+    // A resume that describes the stream differently.
+    const { sessionId: own } = await socket.emitWithAck("begin", { ...base, assetId: motor.assetId });
+    refusal(await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, sampleRate: 2000, resumeSessionId: own }), "resume-mismatch");
   });
 
   it("abandons a session left untouched for days and refuses to resume it", async () => {
@@ -257,7 +289,9 @@ describe("streamed captures", () => {
     expect(await abandonStaleSessions(env.db, env.config, 48)).toBeGreaterThanOrEqual(1);
     expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
     const resume = await socket.emitWithAck("begin", { ...base, resumeSessionId: sessionId });
-    expect(resume.error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/abandoned/) });
+    expect(refusal(resume, "session-closed", "aborted-by-sweep").message).toMatch(/abandoned/);
+    expect(refusal(await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(30, 10) }), "session-closed", "aborted-by-sweep")).toMatchObject({ seq: 1 });
+    refusal(await socket.emitWithAck("end", { sessionId, totalChunks: 1 }), "session-closed", "aborted-by-sweep");
   });
 
   it("abort deletes an open session's frames and closes it for good; a second abort is harmless", async () => {
@@ -273,9 +307,9 @@ describe("streamed captures", () => {
     expect(row).toMatchObject({ status: "aborted", aborted_by: "gateway", abort_reason: "the file changed", capture_id: null });
 
     const resume = await socket.emitWithAck("begin", { ...base, resumeSessionId: sessionId });
-    expect(resume.error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/was abandoned by the gateway \(the file changed\)/) });
-    expect((await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(30, 10) })).error).toMatchObject({ code: "session-closed", seq: 1 });
-    expect((await socket.emitWithAck("end", { sessionId, totalChunks: 1 })).error).toMatchObject({ code: "session-closed", message: expect.stringMatching(/abandoned by the gateway/) });
+    expect(refusal(resume, "session-closed", "aborted-by-gateway").message).toMatch(/was abandoned by the gateway \(the file changed\)/);
+    expect(refusal(await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(30, 10) }), "session-closed", "aborted-by-gateway")).toMatchObject({ seq: 1 });
+    expect(refusal(await socket.emitWithAck("end", { sessionId, totalChunks: 1 }), "session-closed", "aborted-by-gateway").message).toMatch(/abandoned by the gateway/);
     expect(fs.existsSync(partPath(env.config, sessionId))).toBe(false);
 
     // Again (a retried abort whose ack was lost): acknowledged, nothing else changes.
@@ -290,9 +324,20 @@ describe("streamed captures", () => {
     await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 100) });
     const { captureId } = await socket.emitWithAck("end", { sessionId, totalChunks: 1 });
     const ended = await socket.emitWithAck("abort", { sessionId });
-    expect(ended.error).toMatchObject({ code: "session-closed", sessionId, captureId, message: expect.stringMatching(new RegExp(`has ended as capture ${captureId}; it cannot be aborted`)) });
+    expect(refusal(ended, "session-closed", "ended")).toMatchObject({ sessionId, captureId, message: expect.stringMatching(new RegExp(`has ended as capture ${captureId}; it cannot be aborted`)) });
     expect(await env.db("stream_sessions").where({ id: sessionId }).first()).toMatchObject({ status: "ended", capture_id: captureId, aborted_by: null });
     expect(await env.db("captures").where({ id: captureId }).first()).toBeTruthy();
+    expect(refusal(await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(0, 10) }), "session-closed", "ended")).toMatchObject({ seq: 1 });
+
+    // Its capture deleted since: the resume says so (captureId null), "end" and "abort" are refused with their own reason.
+    const deleted = await socket.emitWithAck("begin", base);
+    await socket.emitWithAck("chunk", { sessionId: deleted.sessionId, seq: 0, data: frames3(0, 10) });
+    const made = await socket.emitWithAck("end", { sessionId: deleted.sessionId, totalChunks: 1 });
+    await env.db("captures").where({ id: made.captureId }).del();
+    expect(await socket.emitWithAck("begin", { ...base, resumeSessionId: deleted.sessionId })).toMatchObject({ status: "ended", captureId: null });
+    expect(refusal(await socket.emitWithAck("end", { sessionId: deleted.sessionId, totalChunks: 1 }), "session-closed", "ended-capture-deleted").message).toMatch(/capture was deleted/);
+    expect(refusal(await socket.emitWithAck("abort", { sessionId: deleted.sessionId }), "session-closed", "ended-capture-deleted")).toMatchObject({ captureId: null });
+    refusal(await socket.emitWithAck("chunk", { sessionId: deleted.sessionId, seq: 1, data: frames3(0, 10) }), "session-closed", "ended-capture-deleted");
 
     const other = await newGateway("Gateway whose session is not ours");
     const otherSocket = await rawGateway(other.token);
@@ -300,14 +345,14 @@ describe("streamed captures", () => {
     await otherSocket.emitWithAck("chunk", { sessionId: theirs.sessionId, seq: 0, data: frames3(0, 10) });
     const abort = await socket.emitWithAck("abort", { sessionId: theirs.sessionId });
     const resume = await socket.emitWithAck("begin", { ...base, resumeSessionId: theirs.sessionId });
-    expect(abort.error.code).toBe("unknown-session");
+    refusal(abort, "unknown-session");
     expect(abort.error).toMatchObject({ code: resume.error.code, message: resume.error.message });
     expect(await env.db("stream_sessions").where({ id: theirs.sessionId }).first()).toMatchObject({ status: "open", next_seq: 1 });
     expect(fs.statSync(partPath(env.config, theirs.sessionId)).size).toBe(120);
 
-    expect((await socket.emitWithAck("abort", { sessionId: "not-a-session" })).error).toMatchObject({ code: "bad-request", message: expect.stringMatching(/"abort" is not valid/) });
+    expect(refusal(await socket.emitWithAck("abort", { sessionId: "not-a-session" }), "bad-request").message).toMatch(/"abort" is not valid/);
     // An event the server does not handle is answered, not left to time out.
-    expect((await socket.emitWithAck("pause", { sessionId })).error).toMatchObject({ code: "unknown-event", message: expect.stringMatching(/does not handle "pause"/) });
+    expect(refusal(await socket.emitWithAck("pause", { sessionId }), "unknown-event").message).toMatch(/does not handle "pause"/);
   });
 
   it("the stream client aborts the session it gives up before beginning anew, and carries on with a server that has no abort", async () => {
@@ -371,8 +416,10 @@ describe("streamed captures", () => {
         () => new StreamRefused({ code: "server", message: "the stream was accepted" }),
         (e: unknown) => e as StreamRefused,
       );
-    expect((await attempt(unknown)).error).toMatchObject({ code: "unknown-token", message: expect.stringMatching(/Unknown gateway token/) });
-    expect((await attempt(revoked.token)).error).toMatchObject({ code: "revoked", message: expect.stringMatching(/was revoked/) });
+    expect(refusal(await attempt(unknown), "unknown-token", "unknown-token").message).toMatch(/Unknown gateway token/);
+    refusal(await attempt("secret"), "unknown-token", "malformed-token");
+    refusal(await attempt(""), "unknown-token", "missing-token");
+    expect(refusal(await attempt(revoked.token), "revoked").message).toMatch(/was revoked/);
 
     const file = path.join(dataDir, "token-check.wav");
     fs.writeFileSync(file, writeWav(syntheticCapture(0.2, 5000)));
@@ -399,7 +446,7 @@ describe("streamed captures", () => {
     const dropped = new Promise<string>((resolve) => socket.once("disconnect", resolve));
     const admin = await signedIn(env.app, "admin");
     expect((await admin.post(`/api/gateways/${doomed.id}/revoke`)).status).toBe(200);
-    expect(await told).toMatchObject({ code: "revoked", message: expect.stringMatching(/revoked by an admin/) });
+    expect(refusal({ error: await told }, "revoked").message).toMatch(/revoked by an admin/);
     expect(await dropped).toBe("io server disconnect");
 
     await expect(rawGateway(doomed.token)).rejects.toThrow(/Gateway to be revoked.*was revoked/);
@@ -631,5 +678,99 @@ describe("the command-line gateway after a restart", { timeout: 60_000 }, () => 
     const captureId = Number(again.stdout);
     expect((await env.db("stream_sessions").where({ capture_id: captureId }).first()).id).not.toBe(sessionId);
     expect(captureToF32Frames((await storedCapture(captureId)).capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
+  });
+});
+
+describe("the command-line gateway decides on the refusal's code and reason, never on its words", { timeout: 60_000 }, () => {
+  // A stand-in server that words every refusal differently from Barhound's server (some wordings even hold the words of
+  // another case): the gateway must still tell the cases apart, by code and reason alone.
+  const sessionId = crypto.randomUUID();
+  let fakeUrl = "";
+  let fakeHttp: http.Server;
+  let fakeIo: IoServer;
+  let acceptBegin = true;
+  let resumeAnswer: StreamError = { code: "server", message: "unset" };
+  let abortAnswer: StreamError = { code: "server", message: "unset" };
+  let file = "";
+  let stateDir = "";
+
+  beforeAll(async () => {
+    fakeHttp = http.createServer();
+    fakeIo = new IoServer(fakeHttp);
+    fakeIo.of("/gateway").on("connection", (s) => {
+      s.on("begin", (msg: { resumeSessionId?: string }, ack: (a: unknown) => void) => {
+        if (msg.resumeSessionId) return ack({ error: resumeAnswer });
+        if (acceptBegin) return ack({ sessionId, nextSeq: 0 });
+        ack({ error: { code: "unknown-asset", reason: "unknown-motor", message: "Zzz: no such thing here." } });
+      });
+      s.on("chunk", (_msg: unknown, ack: (a: unknown) => void) => ack({ error: { code: "wrong-site", message: "Zzz: not yours." } }));
+      s.on("abort", (_msg: unknown, ack: (a: unknown) => void) => ack({ error: abortAnswer }));
+    });
+    await new Promise<void>((r) => fakeHttp.listen(0, "127.0.0.1", () => r()));
+    fakeUrl = `http://127.0.0.1:${(fakeHttp.address() as { port: number }).port}`;
+
+    // A run the stand-in stops after its begin: it leaves the state of stream `sessionId`, which every run below
+    // resumes (or, with --fresh, aborts); their new begin is refused, so the state stays for the next one.
+    file = path.join(dataDir, "decisions.wav");
+    fs.writeFileSync(file, writeWav(syntheticCapture(0.2, 5000)));
+    stateDir = path.join(dataDir, "state-decisions");
+    const first = await runGatewayCli(cliArgs());
+    expect(first.code, first.stderr).toBe(1);
+    expect(fs.readdirSync(stateDir)).toHaveLength(1);
+    acceptBegin = false;
+  });
+  afterAll(() => {
+    fakeIo?.close();
+    fakeHttp?.closeAllConnections();
+  });
+
+  const cliArgs = (...extra: string[]) => ["--file", file, "--asset", String(motor.assetId), "--token", token, "--url", fakeUrl, "--state-dir", stateDir, ...extra];
+  /** The one stderr line on what became of the saved stream before the new one was begun. */
+  async function toldAbout(...extra: string[]) {
+    const run = await runGatewayCli(cliArgs(...extra));
+    expect(run.code, run.stderr).toBe(1);
+    expect(run.stderr).toContain("the server refused the stream: Zzz: no such thing here.");
+    const lines = run.stderr.split("\n").filter((l) => l.includes(sessionId) && /starting a new (stream|one)\.$/.test(l));
+    expect(lines, run.stderr).toHaveLength(1);
+    expect(fs.readdirSync(stateDir)).toHaveLength(1);
+    return lines[0];
+  }
+
+  const closed = (reason: StreamError["reason"] | undefined, message: string, extra: Partial<StreamError> = {}): StreamError => ({
+    code: "session-closed",
+    ...(reason ? { reason } : {}),
+    message,
+    sessionId,
+    ...extra,
+  });
+
+  it.each([
+    ["session-closed aborted-by-gateway", closed("aborted-by-gateway", "Zzz: gone."), "was abandoned by a gateway run that started over"],
+    ["session-closed aborted-by-sweep", closed("aborted-by-sweep", "Zzz: was abandoned by the gateway, its capture deleted."), "the server has given up the interrupted stream"],
+    ["session-closed ended-capture-deleted", closed("ended-capture-deleted", "Zzz: was abandoned by the gateway."), "the server finished the interrupted stream"],
+    // An older server without reasons: no guess from its words, its message is shown.
+    ["session-closed without a reason", closed(undefined, "Zzz: was abandoned by the gateway (capture deleted)."), "the server cannot resume the interrupted stream"],
+    ["unknown-session", { code: "unknown-session", message: "Zzz: session deleted, abandoned by the gateway.", sessionId } as StreamError, "the server does not know the interrupted stream"],
+  ])("a resume refused with %s, reworded, is told apart by code and reason", async (_label, answer, expected) => {
+    resumeAnswer = answer;
+    const line = await toldAbout();
+    expect(line).toContain(expected);
+    expect(line).toMatch(/starting a new stream\.$/);
+    for (const other of ["was abandoned by a gateway run", "has given up", "finished the interrupted stream", "cannot resume", "does not know"])
+      if (!expected.includes(other)) expect(line).not.toContain(other);
+    if (expected.includes("cannot resume")) expect(line).toContain("(Zzz: was abandoned by the gateway (capture deleted))");
+  });
+
+  it.each([
+    ["session-closed ended", closed("ended", "Zzz: nope.", { captureId: 77 }), "had already ended on the server as capture 77, which stays"],
+    ["session-closed ended-capture-deleted", closed("ended-capture-deleted", "Zzz: it has ended as capture 12.", { captureId: null }), "had already ended on the server; its capture has since been deleted"],
+    // An older server without reasons: its captureId says the session ended; without one, its words are only shown.
+    ["session-closed without a reason, with captureId", closed(undefined, "Zzz: nope.", { captureId: 77 }), "had already ended on the server as capture 77, which stays"],
+    ["session-closed without a reason", closed(undefined, "Zzz: it has ended, capture deleted."), "the server did not abandon it (Zzz: it has ended, capture deleted)"],
+    ["unknown-session", { code: "unknown-session", message: "Zzz: has ended as capture 5.", sessionId } as StreamError, "the server does not know it (begun with another gateway's token, or removed)"],
+  ])("an abort (--fresh) refused with %s, reworded, is told apart by code and reason", async (_label, answer, expected) => {
+    abortAnswer = answer;
+    const line = await toldAbout("--fresh");
+    expect(line).toMatch(new RegExp(`^gateway: --fresh: .*${expected.replace(/[()]/g, "\\$&")}; starting a new one\\.$`));
   });
 });

@@ -53,11 +53,14 @@ describe("gateway admin routes", () => {
     const admin = await signedIn(env.app, "admin");
     const bad = await admin.post("/api/gateways").send({ name: "" });
     expect(bad.status).toBe(400);
+    expect(bad.body.code).toBe("bad-request");
     expect(Object.keys(bad.body.fields)).toEqual(expect.arrayContaining(["name", "siteId"]));
     const noSite = await admin.post("/api/gateways").send({ name: "Ghost", siteId: 999999 });
     expect(noSite.status).toBe(400);
     expect(noSite.body.fields.siteId).toMatch(/no site/);
-    expect((await admin.post("/api/gateways/999999/revoke")).status).toBe(404);
+    const unknown = await admin.post("/api/gateways/999999/revoke");
+    expect(unknown.status).toBe(404);
+    expect(unknown.body).toMatchObject({ code: "not-found", error: "No such gateway." });
     expect((await admin.get("/api/gateways?sort=token_hash")).status).toBe(400);
   });
 
