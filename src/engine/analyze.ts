@@ -2,7 +2,7 @@
 // markers → bearing defect lines. Pure: the same code runs in the worker, the command line, the tests and the browser.
 import { ROTOR_GRADE_NAMES } from "./types.ts";
 import type { AnalysisOptions, AnalysisResult, BrokenBarResult, Capture, Channel, Marker, Nameplate, QualityVerdict, SlipEstimate, VibrationResult } from "./types.ts";
-import { channelStats, channelVerdicts, type ChannelStats } from "./quality.ts";
+import { channelStats, channelVerdicts, isClipped, type ChannelStats } from "./quality.ts";
 import { coarseSupplyHz, estimateSupply, lowBand, lowBandPassHz, subtractTone, type LowBand, type SupplyEstimate } from "./supply.ts";
 import { realSpectrum, findPeak, zoomSpectrum, toDb, type LineSpectrum } from "./spectrum.ts";
 import { zoomComplex } from "./zoom.ts";
@@ -263,6 +263,7 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
         measurement: measurements[i],
         strongestPair: w === primary ? strongestPair : w.residual && range ? strongestSidebandPair(w.residual, w.supply?.hz ?? supply!.hz, range) : null,
         loadPct: load.loadPct,
+        clippedFraction: isClipped(w.stats) ? w.stats.railFraction : null,
         rotorBars: nameplate.rotorBars,
         poles,
         driveFed: nameplate.driveFed || Math.abs(supply!.hz - ratedHz) > 1,

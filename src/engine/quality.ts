@@ -65,13 +65,16 @@ export const CLIP_FRACTION = 0.001;
 /** |mean|/r.m.s. above 5 % is flagged for current (domain.md §8, 2–5 %, common practice). */
 export const DC_OFFSET_RATIO = 0.05;
 
+/** The clipping rule above: enough samples in flat runs at the rails. */
+export const isClipped = (st: Pick<ChannelStats, "railFraction" | "longestRailRun">) => st.railFraction >= CLIP_FRACTION && st.longestRailRun >= 3;
+
 export function channelVerdicts(name: string, kind: string, st: ChannelStats): QualityVerdict[] {
   const out: QualityVerdict[] = [];
   if (st.rms === 0) {
     out.push({ code: "flat-channel", severity: "error", message: `${name}: the channel is constant (no signal).`, channel: name });
     return out;
   }
-  if (st.railFraction >= CLIP_FRACTION && st.longestRailRun >= 3) {
+  if (isClipped(st)) {
     out.push({
       code: "clipping",
       severity: "error",

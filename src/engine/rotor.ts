@@ -33,8 +33,9 @@ export function thomsonCondition(depthDb: number): string {
   return "Multiple broken bars and end rings, very severe";
 }
 
-/** Below this load the sidebands shrink and merge into the supply line's skirt (domain.md §2: ≥ 50 % usual). */
-export const LIGHT_LOAD_PCT = 45;
+/** Below this load the sidebands shrink and merge into the supply line's skirt (domain.md §2: "usual minimum
+ *  ≥ 50 % of rated load"). */
+export const LIGHT_LOAD_PCT = 50;
 /** Minimum slip confidence to place the sidebands. */
 export const MIN_SLIP_CONFIDENCE = 0.15;
 /** A sideband "stands clearly out" when it is this far above its local floor. */
@@ -91,6 +92,8 @@ export interface RotorInput {
   /** Strongest symmetric pair found anywhere in the plausible 2sf range (for the load-oscillation check). */
   strongestPair: SidebandPair | null;
   loadPct: number | null;
+  /** Share of this channel's samples flat at the rails, when it clips (quality.ts isClipped); else null. */
+  clippedFraction?: number | null;
   rotorBars?: number;
   poles: number;
   driveFed?: boolean;
@@ -162,6 +165,14 @@ export function assessRotor(inp: RotorInput): BrokenBarResult {
   if (inp.loadPct !== null && inp.loadPct < LIGHT_LOAD_PCT) {
     if (!clear) return notAssessable(`light load: ${inp.loadPct.toFixed(0)} % of rated (< ${LIGHT_LOAD_PCT} %) hides rotor sidebands; a clean spectrum does not prove a sound rotor`, levels);
     caveats.push(`Light load (${inp.loadPct.toFixed(0)} %): sidebands shrink at light load, so the real severity may be worse than graded.`);
+    confidence *= 0.5;
+  }
+  if (inp.clippedFraction) {
+    // Flat tops add harmonics and intermodulation products and lower the supply line: the depth read is not the
+    // rotor's. A clean spectrum proves nothing; a sideband that stands out is still reported, with less trust.
+    const pct = `${(inp.clippedFraction * 100).toFixed(2)} % of samples flat at the rails`;
+    if (!clear) return notAssessable(`the current clips (${pct}): clipping distorts the spectrum, so a clean one does not prove a sound rotor; increase the range and re-measure`, levels);
+    caveats.push(`The current clips (${pct}): the sideband depth read is not reliable and the real severity may be worse than graded; increase the range and re-measure.`);
     confidence *= 0.5;
   }
   if (!inp.slipIndependent) {

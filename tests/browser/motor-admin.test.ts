@@ -144,7 +144,7 @@ describe("admin edits motors and their measurement points", () => {
     await d.getByRole("button", { name: "Add point" }).click();
     await d.waitFor({ state: "hidden" });
     const list = section.getByRole("list", { name: `Measurement points of ${tag}` });
-    await expect.poll(() => list.innerText()).toMatch(/Phase A current\s+current \(CT\) · phase A\s+CT 100:1/);
+    await expect.poll(() => list.innerText()).toMatch(/Phase A current\s+Edit\s+Delete\s+current \(CT\) · phase A\s+CT 100:1/);
 
     // Edited into a vibration point: axis, sensitivity and unit follow the kind, the CT ratio goes.
     await section.getByRole("button", { name: "Edit point Phase A current" }).click();
@@ -157,7 +157,7 @@ describe("admin edits motors and their measurement points", () => {
     await h.screenshot("motor-admin-point-edit");
     await d.getByRole("button", { name: "Save point" }).click();
     await d.waitFor({ state: "hidden" });
-    await expect.poll(() => list.innerText()).toMatch(/Drive end horizontal\s+vibration · axis H\s+100 mV\/\(m\/s2\)/);
+    await expect.poll(() => list.innerText()).toMatch(/Drive end horizontal\s+Edit\s+Delete\s+vibration · axis H\s+100 mV\/\(m\/s2\)/);
     const [point] = await db("measurement_points").where({ asset_id: motorId });
     expect(point).toMatchObject({ name: "Drive end horizontal", kind: "vibration", position: "H", ct_ratio: null, sensitivity: 100, unit: "m/s2" });
 

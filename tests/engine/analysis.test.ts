@@ -78,6 +78,30 @@ describe("not assessable, with the right reason", () => {
     expect(result.brokenBar.caveats.join(" ")).toMatch(/Light load/);
     expect(result.brokenBar.confidence).toBeLessThan(full.brokenBar.confidence);
   });
+  it("a clean spectrum at 47 % load is not assessable: the usual minimum is 50 % of rated load (domain.md §2)", () => {
+    const { result } = run({ poles: 4, supplyHz: 50, slip: 0.0094, ratedSlip: 0.02, durationS: 20, seed: 36 });
+    expect(result.loadPct!).toBeGreaterThan(45);
+    expect(result.loadPct!).toBeLessThan(50);
+    expect(result.brokenBar.assessable).toBe(false);
+    expect(result.brokenBar.reason).toMatch(/light load/);
+  });
+  it("clipped current: a clean spectrum is not assessable, and says to increase the range", () => {
+    const { result } = run({ poles: 4, supplyHz: 50, slip: 0.02, durationS: 10, clipAt: 0.85, seed: 37 });
+    expect(codes(result)).toContain("clipping");
+    expect(result.brokenBar.assessable).toBe(false);
+    expect(result.brokenBar.grade).toBeNull();
+    expect(result.brokenBar.reason).toMatch(/clips.*increase the range/);
+  });
+  it("clipped current: a sideband that stands out is still graded, with the caveat and lower confidence", () => {
+    const o = { poles: 4, supplyHz: 50, slip: 0.02, durationS: 10, sidebandDb: 34, seed: 38 };
+    const clean = run(o).result;
+    const { result } = run({ ...o, clipAt: 0.85 });
+    expect(codes(result)).toContain("clipping");
+    expect(result.brokenBar.assessable).toBe(true);
+    expect(result.brokenBar.grade).not.toBeNull();
+    expect(result.brokenBar.caveats.join(" ")).toMatch(/clips.*real severity may be worse/);
+    expect(result.brokenBar.confidence).toBeLessThan(clean.brokenBar.confidence);
+  });
   it("too short: says by how much and how long would be enough (Hann rule 2sf ≥ 8Δf)", () => {
     const { result } = run({ poles: 4, supplyHz: 60, slip: 0.005, ratedSlip: 0.005, durationS: 5, seed: 33 });
     const v = result.quality.find((q) => q.code === "too-short")!;
