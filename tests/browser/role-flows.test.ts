@@ -2,8 +2,8 @@
 //   1. technician uploads sample-data/broken-bars-2.wav to TWT-HLP-P03 (sample-data/README.md), acknowledges the
 //      safety caution, sees the per-file progress, then the live status reach Analysed with the grade, no reload;
 //   2. analyst opens it from Review, sees f, f − 2sf, f + 2sf on the spectrum and confirms the finding with a note;
-//   3. planner schedules an inspection for that finding; the assignee's mail carries an .ics with the due date
-//      (from Needs action: SKIPPED, app bug described at the test; the dialog/mail/.ics part runs via "Schedule inspection");
+//   3. planner schedules an inspection for that finding from Needs action, and one for the motor from "Schedule
+//      inspection"; each assignee's mail carries an .ics with the due date;
 //   4. manager, whose Fleet page has been open since before the upload, sees R5 go up by one and the motor's old
 //      bucket go down by one, live (no reload), and the same after a reload.
 // The tests run in order and share state (one capture travelling through the roles). Screenshots: .screenshots/flows/.
@@ -242,8 +242,8 @@ describe("role flows: one capture from upload to inspection", () => {
     await expectInvitation(insp.id, tech.email, dueIso);
   });
 
-  // The rest of the planner's flow (dialog, assignee, due date, mail with the calendar invitation) through the one UI
-  // path the bug above leaves: "Schedule inspection" for the motor. The inspection is NOT linked to the finding here.
+  // The planner's other way in: "Schedule inspection" for the motor (dialog, assignee, due date, mail with the
+  // calendar invitation). The inspection is not linked to the finding here.
   it("planner: schedules an inspection for the motor from 'Schedule inspection'; the technician's mail has an .ics with the due date", async () => {
     const { page } = h;
     await h.signOut();
@@ -252,7 +252,7 @@ describe("role flows: one capture from upload to inspection", () => {
     const needs = page.getByRole("heading", { name: "Needs action" }).locator("xpath=ancestor::section[1]");
     await needs.getByRole("table").or(needs.getByText("No open findings")).first().waitFor();
     await page.waitForLoadState("networkidle").catch(() => undefined);
-    await shot("3a-planner-needs-action"); // shows the confirmed R5 finding missing from Needs action (the bug above)
+    await shot("3a-planner-needs-action");
     await page.getByRole("button", { name: "Schedule inspection" }).click();
 
     const dialog = page.getByRole("dialog");

@@ -24,6 +24,7 @@ export function CaptureStatusLine({ id, initialStatus = "received" }: { id: numb
   const at = stepIndex(status);
   // The engine's rotor result (src/engine/types.ts BrokenBarResult): grade "R1".."R5" or null when not assessable.
   const rotor = q.data?.analysis?.brokenBar;
+  const problems = (q.data?.analysis?.quality ?? []).filter((v) => v.severity !== "info").length;
   return (
     <div className="flex flex-wrap items-center gap-x-3 gap-y-1 text-caption" data-testid="capture-status" data-status={status}>
       <ol className="flex items-center gap-1" aria-label={`Capture ${id}: ${status}`}>
@@ -48,9 +49,18 @@ export function CaptureStatusLine({ id, initialStatus = "received" }: { id: numb
       {status === "analysed" && rotor && (
         <GradeBadge compact grade={rotor.grade ?? rotor.gradeName} assessable={rotor.assessable} reason={rotor.reason} />
       )}
+      {/* the reason in words, not only in the badge's tooltip (touch screens have no hover) */}
+      {status === "analysed" && rotor && !rotor.assessable && rotor.reason && <span className="text-ink-muted">{sentenceCase(rotor.reason)}.</span>}
+      {status === "analysed" && problems > 0 && (
+        <span className="text-ink-muted">
+          {problems} data-quality {problems === 1 ? "note" : "notes"}: see the capture
+        </span>
+      )}
       <Link to={`/captures/${id}`} className="ml-auto">
         Open capture <span className="num">#{id}</span>
       </Link>
     </div>
   );
 }
+
+const sentenceCase = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);

@@ -1,4 +1,4 @@
-// Pure rules of the Upload screen (tested in tests/client/upload.test.ts).
+// Pure rules of the Upload screen (tested in tests/client/plan-upload.test.ts).
 import { z } from "zod";
 import { ApiError } from "../../lib/api.ts";
 import type { CaptureStatus } from "../../lib/contracts.ts";
