@@ -1,6 +1,7 @@
 // Command line: analyse one capture file.
-//   npm run --silent analyze -- FILE --poles N --rated-rpm N [--rated-hz N] [--rotor-bars N]
-//        [--rated-current A] [--voltage V] [--rated-voltage V] [--sample-rate HZ] [--drive] [--json]
+//   npm run --silent analyze -- FILE --poles N --rated-rpm N [--rated-hz N] [--rotor-bars N] [--rated-kw KW]
+//        [--rated-current A] [--voltage V --rated-voltage V] [--group 1|2] [--support rigid|flexible]
+//        [--sample-rate HZ] [--drive] [--json]
 // With --json stdout carries exactly one JSON object; errors go to stderr with a non-zero exit code.
 import { readFileSync } from "node:fs";
 import { basename } from "node:path";
@@ -9,7 +10,7 @@ import { analyzeCapture } from "../src/engine/analyze.ts";
 import type { AnalysisResult, Nameplate } from "../src/engine/types.ts";
 
 const USAGE =
-  "usage: analyze FILE --poles N --rated-rpm N [--rated-hz N] [--rotor-bars N] [--rated-current A] [--voltage V] [--rated-voltage V] [--sample-rate HZ] [--drive] [--json]";
+  "usage: analyze FILE --poles N --rated-rpm N [--rated-hz N] [--rotor-bars N] [--rated-kw KW] [--rated-current A] [--voltage V --rated-voltage V] [--group 1|2] [--support rigid|flexible] [--sample-rate HZ] [--drive] [--json]";
 
 interface Args {
   file: string;
@@ -36,7 +37,7 @@ function parseArgs(argv: string[]): Args {
       flags.set(k, v);
     } else positional.push(a);
   }
-  const known = new Set(["poles", "rated-rpm", "rated-hz", "rotor-bars", "rated-current", "voltage", "rated-voltage", "sample-rate"]);
+  const known = new Set(["poles", "rated-rpm", "rated-hz", "rotor-bars", "rated-kw", "rated-current", "voltage", "rated-voltage", "group", "support", "sample-rate"]);
   for (const k of flags.keys()) if (!known.has(k)) throw new UsageError(`unknown option --${k}\n${USAGE}`);
   if (positional.length !== 1) throw new UsageError(`expected one FILE\n${USAGE}`);
   const num = (k: string, required = false): number | undefined => {
@@ -51,6 +52,12 @@ function parseArgs(argv: string[]): Args {
   };
   const poles = num("poles", true)!;
   if (!Number.isInteger(poles) || poles % 2 !== 0) throw new UsageError(`--poles must be an even whole number, got ${poles}`);
+  // The slip method is corrected by (V/V_r)²: a measured voltage alone has nothing to be compared with.
+  if (flags.has("voltage") && !flags.has("rated-voltage")) throw new UsageError(`--voltage needs --rated-voltage (the load from slip is corrected by (V/V_rated)²)\n${USAGE}`);
+  const group = flags.get("group");
+  if (group !== undefined && group !== "1" && group !== "2") throw new UsageError(`--group must be 1 or 2 (ISO 20816-3 machine group), got "${group}"`);
+  const support = flags.get("support");
+  if (support !== undefined && support !== "rigid" && support !== "flexible") throw new UsageError(`--support must be rigid or flexible, got "${support}"`);
   return {
     file: positional[0],
     json: bools.has("json"),
@@ -61,6 +68,9 @@ function parseArgs(argv: string[]): Args {
       rotorBars: num("rotor-bars"),
       ratedCurrent: num("rated-current"),
       ratedVoltage: num("rated-voltage"),
+      ratedKw: num("rated-kw"),
+      machineGroup: group === undefined ? undefined : group === "1" ? 1 : 2,
+      support: support as "rigid" | "flexible" | undefined,
       driveFed: bools.has("drive") || undefined,
     },
     voltage: num("voltage"),
@@ -85,6 +95,10 @@ function report(file: string, r: AnalysisResult): string {
     lines.push(`    f − 2sf      ${fmt(b.lowerHz, 3, "Hz")}  ${fmt(b.lowerDb, 1, "dB below f")}`);
     lines.push(`    f + 2sf      ${fmt(b.upperHz, 3, "Hz")}  ${fmt(b.upperDb, 1, "dB below f")}`);
   }
+  const phases = (r.phases ?? []) as { channel: string; rmsA: number; lowerDb: number | null; grade: string | null }[];
+  if (phases.length > 1) for (const ph of phases) lines.push(`    ${ph.channel.padEnd(12)} ${fmt(ph.rmsA, 2, "A r.m.s.")}  f − 2sf ${fmt(ph.lowerDb, 1, "dB below f")}  ${ph.grade ?? "not graded"}`);
+  const park = r.park as { twoSfHz: number; depthDb: number | null; detected: boolean } | null | undefined;
+  if (park) lines.push(`    Park's vector 2sf ${fmt(park.twoSfHz, 3, "Hz")}  ${park.detected ? fmt(park.depthDb, 1, "dB below the mean") : "no line"}`);
   if (b.estimatedBrokenBars !== null && b.assessable) lines.push(`    broken bars  ≈ ${b.estimatedBrokenBars.toFixed(1)} bars (Thomson estimate)`);
   if (b.assessable) lines.push(`    confidence   ${b.confidence.toFixed(2)}`);
   for (const c of b.caveats) lines.push(`    note: ${c}`);

@@ -145,6 +145,17 @@ describe("analyze CLI text report", () => {
     expect(txt).toMatch(/broken bars\s+≈ \d\.\d bars/);
     expect(txt).toMatch(/vibration\s+accel_h: \d+\.\d\d mm\/s r\.m\.s\. \(10–1000 Hz\), zone [A-D]/);
     expect(txt).toMatch(/1×\s+24\.\d{3} Hz\s+\d\.\d\d mm\/s/);
+    // each phase and Park's vector, not only the averaged verdict
+    for (const ch of s.capture.channels.filter((c) => c.kind === "current")) expect(txt).toMatch(new RegExp(`${ch.name}\\s+\\d+\\.\\d\\d A r\\.m\\.s\\.\\s+f − 2sf\\s+\\d+\\.\\d dB below f\\s+R\\d`));
+    expect(txt).toMatch(/Park's vector 2sf\s+\d\.\d{3} Hz/);
+  }, TIMEOUT);
+
+  it("machine group and support are taken from the options (ISO 20816-3 zone limits)", () => {
+    const s = synth.csv3;
+    const out = cli([files.csv3, ...nameplateArgs(s), "--group", "1", "--support", "flexible", "--json"]);
+    expect(out.status, out.stderr).toBe(0);
+    const r = JSON.parse(out.stdout);
+    expect(r.vibration).toMatchObject({ machineGroup: 1, support: "flexible" });
   }, TIMEOUT);
 });
 
@@ -184,5 +195,13 @@ describe("analyze CLI errors", () => {
     expect(unknown.status).toBe(2);
     expect(unknown.stderr).toMatch(/unknown option --frobnicate[\s\S]*usage:/);
     expect(unknown.stdout).toBe("");
+  }, TIMEOUT);
+
+  it("--voltage without --rated-voltage, and a bad --group or --support, are usage errors (nothing silently ignored)", () => {
+    const volt = cli([files.csv3, "--poles", "4", "--rated-rpm", "1470", "--voltage", "400"]);
+    expect(volt.status).toBe(2);
+    expect(volt.stderr).toMatch(/--voltage needs --rated-voltage/);
+    expect(cli([files.csv3, "--poles", "4", "--rated-rpm", "1470", "--group", "3"]).stderr).toMatch(/--group must be 1 or 2/);
+    expect(cli([files.csv3, "--poles", "4", "--rated-rpm", "1470", "--support", "soft"]).stderr).toMatch(/--support must be rigid or flexible/);
   }, TIMEOUT);
 });

@@ -36,6 +36,9 @@ const torqueAt = (rpm: number, kw: number) => (kw * 1000) / ((2 * Math.PI * rpm)
 describe("skin-effect shape", () => {
   it("K_R and K_X are 1 at ξ → 0, follow the small-ξ series and the large-ξ limits ξ and 3/(2ξ)", () => {
     expect(skinEffectFactors(0)).toEqual({ kr: 1, kx: 1 });
+    // The rectangular-bar skin-effect factors K_R = ξ(sinh 2ξ + sin 2ξ)/(cosh 2ξ − cos 2ξ) and
+    // K_X = 3(sinh 2ξ − sin 2ξ)/(2ξ(cosh 2ξ − cos 2ξ)), their series 1 + 4ξ⁴/45 and 1 − 8ξ⁴/315 and limits ξ and 3/(2ξ):
+    // the classical deep-bar result of machine-design textbooks (from memory).
     const a = skinEffectFactors(0.3);
     within(a.kr - 1, (4 * 0.3 ** 4) / 45, 0.01);
     within(1 - a.kx, (8 * 0.3 ** 4) / 315, 0.01);
@@ -197,6 +200,8 @@ describe("nameplate estimate with a deep-bar rotor", () => {
     expect(p.rotorLockedX2 as number).toBeLessThan(p.x2);
   });
 
+  // The targets are the estimate's own typical ratios (design.ts: 1.3 × torque above 75 kW, typical values from memory
+  // inside the NEMA design table; 6.5 × current, common practice): this checks the fit reaches them.
   it("160 kW design B (above 75 kW): starting torque 1.3 × and current 6.5 × rated, running fits kept", () => {
     const e = estimateFromNameplate(np160);
     const k = keyPoints(e.input);

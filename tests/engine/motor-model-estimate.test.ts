@@ -253,7 +253,9 @@ describe("typical design B nameplates against the NEMA design table (EASA handbo
     }
   });
 
-  it("NEMA MG 1 ¶12.35.1 maxima: 81 A for 10 hp and 725 A for 100 hp at 460 V, 580 A for 100 hp at 575 V (handbook table); none outside ½–500 hp", () => {
+  // The table lists 230 V amperes (10 hp 162 A, 100 hp 1450 A) and scales them inversely with voltage; the values
+  // are from memory of the handbook's copy of the table, not in the domain sheet.
+  it("NEMA MG 1 ¶12.35.1 maxima: 81 A for 10 hp and 725 A for 100 hp at 460 V, 580 A for 100 hp at 575 V (handbook table, from memory); none outside ½–500 hp", () => {
     within(nemaMaxLockedRotorCurrentA(10 * 0.7457, 460) as number, 81, 1e-9);
     within(nemaMaxLockedRotorCurrentA(100 * 0.7457, 460) as number, 725, 1e-9);
     within(nemaMaxLockedRotorCurrentA(100 * 0.7457, 575) as number, 580, 1e-9);
