@@ -21,12 +21,13 @@ import { fleetRoutes } from "./routes/fleet.ts";
 import { siteRoutes } from "./routes/sites.ts";
 import { assetRoutes } from "./routes/assets.ts";
 import { captureRoutes } from "./routes/captures.ts";
+import { analysisRoutes } from "./routes/analyses.ts";
 import { findingRoutes } from "./routes/findings.ts";
 import { calendarFeedRoutes } from "./routes/calendar-feed.ts";
 import { redactFeedUrl } from "./plan/feed-links.ts";
 
 /** Route modules, in mount order. Each returns an express Router whose routes declare their permission. */
-const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, captureRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, calendarFeedRoutes, fleetRoutes];
+const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, captureRoutes, analysisRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, calendarFeedRoutes, fleetRoutes];
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();

@@ -150,6 +150,31 @@ export interface Capture {
 /** GET /captures/:id: a capture with its current analysis. */
 export type CaptureDetail = Capture & { analysis: CaptureAnalysis | null };
 
+/** GET /captures/:id/analyses: one stored analysis of a capture, with what it was computed from and its readings. */
+export interface AnalysisVersion {
+  id: number;
+  version: number;
+  isCurrent: boolean;
+  engineVersion: string;
+  nameplateVersion: number | null;
+  /** As the worker stored it: `{ nameplate, nameplateVersion, engineVersion }` (read loosely: older rows may differ). */
+  params: Record<string, unknown>;
+  createdAt: string;
+  supplyHz: number | null;
+  slip: number | null;
+  rpm: number | null;
+  loadPct: number | null;
+  sidebandDb: number | null;
+  rotorGrade: GradeValue | null;
+  rotorAssessable: boolean;
+  rotorReason: string | null;
+  vibrationRms: number | null;
+  vibrationZone: string | null;
+}
+
+/** GET /captures/:id/analyses/:analysisId: one stored result, shaped as the capture detail's `analysis`. */
+export type CaptureAnalysisVersion = CaptureAnalysis & { isCurrent: boolean };
+
 export interface Verdict {
   id: number;
   verdict: string;

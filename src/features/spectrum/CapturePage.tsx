@@ -14,6 +14,7 @@ import { useMotorCaptures } from "./api/get-motor-captures.ts";
 import { QualityList, Readings, SlipEstimates } from "./components/Readings.tsx";
 import { SpectrumViewer } from "./components/SpectrumViewer.tsx";
 import { BearingLines } from "./components/BearingLines.tsx";
+import { AnalysisVersions } from "./components/AnalysisVersions.tsx";
 import { FindingLevel, VerdictForm, VerdictHistory } from "./components/VerdictForm.tsx";
 import { WaveformPlot } from "./components/WaveformPlot.tsx";
 
@@ -115,6 +116,11 @@ export default function CapturePage() {
             <Section title="Time waveform">
               <WaveformPlot captureId={c.id} channels={c.channels} durationS={c.durationS} supplyHz={a.supplyHz} rpm={a.rpm} />
             </Section>
+            {(c.analyses?.length ?? 0) > 1 && (
+              <Section title="Analysis versions">
+                <AnalysisVersions captureId={c.id} />
+              </Section>
+            )}
           </div>
           <aside className="flex flex-col gap-4">
             <Section title="Data quality">

@@ -25,6 +25,9 @@ export const captureKeys = {
   list: (filters: Record<string, unknown>) => [...rootKeys.captures, "list", filters] as const,
   details: () => [...rootKeys.captures, "detail"] as const,
   detail: (id: number) => [...rootKeys.captures, "detail", id] as const,
+  /** A capture's analysis versions: under its detail key, so whatever refreshes the capture refreshes them. */
+  analyses: (id: number) => [...rootKeys.captures, "detail", id, "analyses"] as const,
+  analysis: (id: number, analysisId: number) => [...rootKeys.captures, "detail", id, "analyses", analysisId] as const,
   signals: ["capture-signals"] as const,
   spectrum: (id: number, p: SpectrumParams) => ["capture-signals", id, "spectrum", p] as const,
   waveform: (id: number, p: WaveformParams) => ["capture-signals", id, "waveform", p] as const,
