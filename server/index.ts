@@ -9,6 +9,7 @@ import { startMailFake } from "./mail/fake-smtp.ts";
 import type { AppContext } from "./context.ts";
 import { installRealtime } from "./realtime.ts";
 import { installPipeline } from "./captures/pipeline.ts";
+import { removeStaleUploadTemp } from "./captures/upload.ts";
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 
@@ -38,6 +39,9 @@ export async function startServer(config: Config = loadConfig(), opts: { staticD
   if (fake) config.smtp.port = fake.port;
   const ctx: AppContext = { db, config, mailer: createMailer(config), services: {} };
   await installPipeline(ctx); // blob store + job queue: services.blob, services.queue
+  // Upload temp folders a crash left behind (the route removes its own before answering).
+  const staleUploads = await removeStaleUploadTemp(config.dataDir).catch((err) => (console.error("[upload] temp sweep failed:", (err as Error).message), []));
+  if (staleUploads.length) console.log(`removed ${staleUploads.length} upload temp folder(s) left by an earlier run`);
   installRealtime(ctx); // socket.io (live updates, gateway streams): onHttpServer + onClose hooks, services.publish
   const app = createApp(ctx, { staticDir: opts.staticDir ?? path.join(ROOT, "dist") });
   const server = http.createServer(app);

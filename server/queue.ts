@@ -38,6 +38,10 @@ export function jobPolicy(env: NodeJS.ProcessEnv = process.env): JobPolicy {
 export interface CaptureQueue {
   boss: PgBoss;
   policy: JobPolicy;
+  /**
+   * One job, outside any transaction. Prefer `sendAnalyses` with `{ trx }` wherever the job goes with a row change
+   * (uploads, requeues, the sweep do): a job sent after its row's commit is lost when the process dies in between.
+   */
   sendAnalysis(data: AnalysisJobData): Promise<string | null>;
   /**
    * Queue many analysis jobs with one INSERT (pg-boss `insert`). Given a knex transaction, the jobs are written in

@@ -104,11 +104,12 @@ async function main() {
     }
   });
 
-  // Captures no job will finish (retries used up by timeouts, job cancelled or lost) are marked failed: at start,
-  // then every BARHOUND_STUCK_SWEEP_S (default 60). Every worker may sweep; the conditional update makes that harmless.
+  // Captures no job will finish (retries used up by timeouts, job cancelled or lost) are marked failed, and captures
+  // left "received" with no job are queued: at start, then every BARHOUND_STUCK_SWEEP_S (default 60). Every worker
+  // may sweep; the conditional updates make that harmless.
   const sweep = async () => {
     try {
-      const swept = await sweepStuckCaptures(db, { expireInSeconds: queue.policy.expireInSeconds });
+      const swept = await sweepStuckCaptures(db, { expireInSeconds: queue.policy.expireInSeconds, queue });
       for (const s of swept) console.error(`[worker] capture ${s.id}: ${s.error}`);
     } catch (err) {
       console.error("[worker] stuck-capture sweep failed:", (err as Error).message);

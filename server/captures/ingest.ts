@@ -4,6 +4,7 @@ import type { AppContext } from "../context.ts";
 import { blobStoreOf, type BlobSource } from "../blob/index.ts";
 import { queueOf } from "../queue.ts";
 import { publishEvent } from "./publish.ts";
+import { HttpError, missingParent } from "../errors.ts";
 
 export interface ChannelInfo {
   name: string;
@@ -55,20 +56,26 @@ function sourceOf(input: StoreCaptureInput): BlobSource {
 }
 
 /**
- * Store one capture and queue its analysis: blob first, then the row, then the job. When any step fails the
- * steps already done are undone (blob deleted, row deleted), so a failed ingest leaves nothing half-stored.
- * Used by uploads (POST /api/captures) and by the gateway stream module.
+ * Store one capture and queue its analysis: blob first, then the row and its job in one transaction. When any step
+ * fails the steps already done are undone (blob deleted, row and job rolled back), so a failed ingest leaves nothing
+ * half-stored. Used by uploads (POST /api/captures) and by the gateway stream module.
  */
 export async function storeCaptureAndQueue(ctx: AppContext, input: StoreCaptureInput): Promise<StoredCapture> {
   const [one] = await storeCapturesAndQueue(ctx, [input]);
   return one;
 }
 
-/** All-or-nothing for several files: every blob and row is written, or none is. */
+/**
+ * All-or-nothing for several files: every blob, row and job is written, or none is. The rows are inserted `queued`
+ * and their jobs sent in the same transaction (pg-boss `insert` on the knex transaction, as `requeueAnalyses` does),
+ * so a crash between the two cannot leave a capture that no job will ever take.
+ */
 export async function storeCapturesAndQueue(ctx: AppContext, inputs: StoreCaptureInput[]): Promise<StoredCapture[]> {
   const blob = blobStoreOf(ctx);
   const queue = queueOf(ctx);
   const keys: string[] = [];
+  // The ids inserted, set inside the transaction: when its commit fails without saying whether it happened (a
+  // connection lost at COMMIT), the rows are deleted again below, which is a no-op after a rollback.
   let ids: number[] = [];
   try {
     for (const input of inputs) {
@@ -78,7 +85,7 @@ export async function storeCapturesAndQueue(ctx: AppContext, inputs: StoreCaptur
       const { size } = await blob.put(key, sourceOf(input));
       (input as StoreCaptureInput & { _size?: number })._size = size;
     }
-    ids = await ctx.db.transaction(async (trx) => {
+    await ctx.db.transaction(async (trx) => {
       const out: number[] = [];
       for (const [i, input] of inputs.entries()) {
         const [row] = await trx("captures")
@@ -97,28 +104,44 @@ export async function storeCapturesAndQueue(ctx: AppContext, inputs: StoreCaptur
             channels: input.meta?.channels ? JSON.stringify(input.meta.channels) : null,
             byte_size: (input as StoreCaptureInput & { _size?: number })._size ?? null,
             blob_key: keys[i],
-            status: "received",
+            // Queued at once: its job is written in this transaction, so no worker sees one without the other.
+            status: "queued",
+            queued_at: trx.fn.now(),
             notes: input.notes ?? null,
             analysis_version: 1,
           })
           .returning("id");
         out.push(row.id);
       }
-      return out;
+      ids = out;
+      await queue.sendAnalyses(out.map((id) => ({ captureId: id, version: 1 })), { trx });
     });
-    for (const id of ids) await queue.sendAnalysis({ captureId: id, version: 1 });
-    // Only "received" moves to "queued": a fast worker may already have moved the capture on.
-    await ctx.db("captures").whereIn("id", ids).andWhere({ status: "received" }).update({ status: "queued", queued_at: ctx.db.fn.now(), updated_at: ctx.db.fn.now() });
   } catch (err) {
-    // A job already sent for a deleted row finds no capture and completes as a no-op.
     if (ids.length) await ctx.db("captures").whereIn("id", ids).delete().catch(() => {});
     for (const key of keys) await blob.delete(key).catch(() => {});
     throw err;
   }
-  const rows = await ctx.db("captures").whereIn("id", ids).select("id", "status", "asset_id", "file_name");
-  const byId = new Map(rows.map((r) => [r.id, r]));
-  for (const id of ids) await publishEvent(ctx, "capture:status", { id, assetId: byId.get(id)?.asset_id, status: byId.get(id)?.status });
-  return ids.map((id) => ({ id, status: byId.get(id)?.status ?? "queued", fileName: byId.get(id)?.file_name }));
+  // Stored and queued from here on: nothing below may throw (a caller would take it for a failed ingest).
+  // The row's status now: a fast worker may already have moved the capture on.
+  const rows: { id: number; status: StoredCapture["status"] }[] = await ctx.db("captures").whereIn("id", ids).select("id", "status").catch(() => []);
+  const statusOf = new Map(rows.map((r) => [r.id, r.status]));
+  const out = ids.map((id, i) => ({ id, status: statusOf.get(id) ?? "queued", fileName: inputs[i].fileName.slice(0, 300) }));
+  for (const [i, c] of out.entries()) await publishEvent(ctx, "capture:status", { id: c.id, assetId: inputs[i].assetId, status: c.status });
+  return out;
+}
+
+/**
+ * What an upload answers when the ingest failed for a reason of the server's (database, queue or blob store down,
+ * a lost connection): 503, code "unavailable", saying nothing was stored (true: the ingest undid its steps) and to
+ * try again. A refusal that is already an HttpError, or a motor deleted meanwhile (the 409 of `missingParent`), is
+ * passed on as it is.
+ */
+export function ingestFailure(err: unknown): unknown {
+  if (err instanceof HttpError || missingParent(err)) return err;
+  return Object.assign(
+    new HttpError(503, "The server could not store the upload just now (its database, job queue or file store did not answer). Nothing was stored: send the files again in a moment.", undefined, "unavailable"),
+    { cause: err },
+  );
 }
 
 /**

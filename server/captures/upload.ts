@@ -23,9 +23,13 @@ export interface ReceivedFile {
   size: number;
 }
 
+/** Where uploads are received: one `upload-<uuid>` folder per request under this. */
+export const uploadTempRoot = (dataDir: string) => path.resolve(dataDir, "tmp");
+const UPLOAD_TEMP_PREFIX = "upload-";
+
 /** Receive the multipart body into a fresh temp folder. Returns the folder (to remove) and the form. */
 export async function receiveMultipart(ctx: AppContext, req: Request, res: Response): Promise<{ dir: string; files: ReceivedFile[]; fields: Record<string, unknown> }> {
-  const dir = path.resolve(ctx.config.dataDir, "tmp", `upload-${crypto.randomUUID()}`);
+  const dir = path.join(uploadTempRoot(ctx.config.dataDir), `${UPLOAD_TEMP_PREFIX}${crypto.randomUUID()}`);
   await fsp.mkdir(dir, { recursive: true });
   const upload = multer({
     storage: multer.diskStorage({ destination: dir, filename: (_req, _file, cb) => cb(null, crypto.randomUUID()) }),
@@ -131,4 +135,44 @@ export function captureMeta(summary: CaptureSummary): Required<CaptureMeta> {
 
 export function removeDir(dir: string) {
   return fsp.rm(dir, { recursive: true, force: true });
+}
+
+/**
+ * Upload temp folders (`dataDir/tmp/upload-*`, and any stray file of that name) that a crashed server left behind:
+ * removed when nothing in them was written for `olderThanMs` (default an hour), so an upload still being received by
+ * another server process on the same data folder keeps its folder (its file's mtime moves as bytes arrive). Run at
+ * server start. Returns the names removed; never throws for one entry it cannot read or remove.
+ */
+export async function removeStaleUploadTemp(dataDir: string, opts: { olderThanMs?: number; now?: number } = {}): Promise<string[]> {
+  const root = uploadTempRoot(dataDir);
+  const cutoff = (opts.now ?? Date.now()) - (opts.olderThanMs ?? 3_600_000);
+  let entries: fs.Dirent[];
+  try {
+    entries = await fsp.readdir(root, { withFileTypes: true });
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code === "ENOENT") return [];
+    throw err;
+  }
+  const removed: string[] = [];
+  for (const e of entries) {
+    if (!e.name.startsWith(UPLOAD_TEMP_PREFIX)) continue;
+    const full = path.join(root, e.name);
+    try {
+      if ((await newestMtimeMs(full)) > cutoff) continue;
+      await fsp.rm(full, { recursive: true, force: true });
+      removed.push(e.name);
+    } catch (err) {
+      if ((err as NodeJS.ErrnoException).code !== "ENOENT") console.error(`[upload] could not remove the stale temp ${full}:`, (err as Error).message);
+    }
+  }
+  return removed;
+}
+
+/** The newest mtime of a file, or of a folder and everything in it. */
+async function newestMtimeMs(p: string): Promise<number> {
+  const st = await fsp.lstat(p);
+  if (!st.isDirectory()) return st.mtimeMs;
+  let newest = st.mtimeMs;
+  for (const name of await fsp.readdir(p)) newest = Math.max(newest, await newestMtimeMs(path.join(p, name)).catch(() => 0));
+  return newest;
 }

@@ -5,7 +5,7 @@ import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
 import { badRequest, conflict, HttpError, notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
-import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
+import { applySort, applyTimeRange, idParam, listQuery, paginate, timeRangeQuery } from "../captures/paging.ts";
 import { applyGradeFilter, ASSET_SORT, assetBase, assetOut, assetSelect, loadAsset, nameplateChanges, pointOut, toRow } from "../captures/asset-service.ts";
 import { assetBody, assetPatchBody, speedProblem } from "../../src/shared/schemas/assets.ts";
 import { DEFAULT_POINT_UNIT, pointBody, pointPatchBody, type PointPatchBody } from "../../src/shared/schemas/points.ts";
@@ -24,10 +24,11 @@ const pointRow = (p: PointPatchBody) => {
   return row;
 };
 
-const isoDate = z
-  .string()
-  .refine((s) => !Number.isNaN(Date.parse(s)), "Not a date (use ISO 8601, e.g. 2026-12-01T08:00:00Z)")
-  .optional();
+/**
+ * The most trend points one answer holds. A range with more keeps the newest (the answer says `truncated`, how many
+ * the range holds and from when it shows), so the latest readings are never the ones missing.
+ */
+export const TREND_POINT_CAP = 5000;
 
 const isUnique = (err: unknown) => (err as { code?: string }).code === "23505";
 const isForeignKey = (err: unknown) => (err as { code?: string }).code === "23503";
@@ -192,16 +193,21 @@ export function assetRoutes(ctx: AppContext) {
 
   r.get("/assets/:id/trend", "fleet.read", async (req, res) => {
     const id = idParam(req.params.id, "motor");
-    const q = parseOr400(z.object({ from: isoDate, to: isoDate }), req.query, "Invalid trend query");
+    const q = parseOr400(
+      timeRangeQuery({ limit: z.coerce.number().int().min(1, "limit is at least 1").max(TREND_POINT_CAP, `limit is at most ${TREND_POINT_CAP}`).optional() }),
+      req.query,
+      "Invalid trend query",
+    );
     await mustAsset(id);
-    const rows = await db("analyses")
-      .where({ asset_id: id, is_current: true })
-      .modify((b) => {
-        if (q.from) b.where("taken_at", ">=", new Date(q.from));
-        if (q.to) b.where("taken_at", "<=", new Date(q.to));
-      })
-      .orderBy([{ column: "taken_at" }, { column: "id" }])
-      .limit(5000);
+    const cap = q.limit ?? TREND_POINT_CAP;
+    const inRange = () => applyTimeRange(db("analyses").where({ asset_id: id, is_current: true }), "taken_at", q);
+    // Newest first (index analyses_asset_current), one more than the cap to know whether the range holds more.
+    const newest = await inRange()
+      .orderBy([{ column: "taken_at", order: "desc" }, { column: "id", order: "desc" }])
+      .limit(cap + 1);
+    const truncated = newest.length > cap;
+    const rows = newest.slice(0, cap).reverse(); // oldest first, as the charts draw them
+    const total = truncated ? Number((await inRange().count({ n: "*" }))[0].n) : rows.length;
     res.json({
       points: rows.map((a: Record<string, any>) => ({
         takenAt: a.taken_at,
@@ -217,6 +223,10 @@ export function assetRoutes(ctx: AppContext) {
         vibrationZone: a.vibration_zone,
         supplyHz: a.supply_hz,
       })),
+      truncated,
+      total,
+      limit: cap,
+      shownFrom: rows.length ? rows[0].taken_at : null,
     });
   });
 

@@ -4,10 +4,10 @@ import type { AppContext } from "../context.ts";
 import { guardedRouter } from "../http.ts";
 import { badRequest, conflict, HttpError, notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
-import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
+import { applySort, applyTimeRange, idParam, listQuery, paginate, timeRangeFields } from "../captures/paging.ts";
 import { CAPTURE_SORT, captureBase, captureOut, captureSelect, loadCapture } from "../captures/capture-service.ts";
 import { checkFile, FileRejected, receiveMultipart, removeDir, type CheckedFile } from "../captures/upload.ts";
-import { requeueAnalysis, storeCapturesAndQueue } from "../captures/ingest.ts";
+import { ingestFailure, requeueAnalysis, storeCapturesAndQueue } from "../captures/ingest.ts";
 import { spectrumView, waveformView } from "../captures/signal-views.ts";
 import { blobStoreOf } from "../blob/index.ts";
 import { uploadFields } from "../../src/shared/schemas/captures.ts";
@@ -22,7 +22,8 @@ export function captureRoutes(ctx: AppContext) {
    * Upload one or more capture files. All-or-nothing: every file is checked first; if any is refused, none is
    * stored and the answer names the file. Status codes: 400 bad metadata or no file, 404 unknown motor,
    * 413 over the size limit, 415 not CSV/WAV by content, 422 CSV/WAV that cannot be parsed (message names the
-   * line or byte), 202 stored and queued.
+   * line or byte), 503 code "unavailable" when the database, queue or blob store failed (nothing stored), 202 stored
+   * and queued.
    */
   r.post("/captures", "captures.upload", async (req, res) => {
     const { dir, files, fields } = await receiveMultipart(ctx, req, res);
@@ -55,7 +56,13 @@ export function captureRoutes(ctx: AppContext) {
           notes: meta.notes ?? null,
           meta: f.meta,
         })),
-      );
+      ).catch((err: unknown) => {
+        // The database, queue or blob store failing here is a 503 "nothing was stored, try again" (the ingest undid
+        // its steps), not a bare 500; the cause goes to the log.
+        const refusal = ingestFailure(err);
+        if (refusal !== err) req.log?.error({ err }, "capture ingest failed");
+        throw refusal;
+      });
       await audit(db, { actor: req.user, action: "capture.uploaded", subjectType: "asset", subjectId: meta.assetId, details: { captures: stored.map((s) => s.id) }, ip: req.ip });
       answer = { status: 202, body: { captures: stored } };
     } catch (err) {
@@ -74,8 +81,10 @@ export function captureRoutes(ctx: AppContext) {
       status: z.string().optional().refine((s) => !s || s.split(",").every((x) => (STATUSES as readonly string[]).includes(x)), `One or more of: ${STATUSES.join(", ")}`),
       source: z.enum(["upload", "stream"]).optional(),
       mine: z.enum(["0", "1", "true", "false"]).optional(),
-    });
+      ...timeRangeFields, // on taken_at
+    }, { strict: true });
     const base = captureBase(db);
+    applyTimeRange(base, "c.taken_at", q);
     if (q.assetId) base.where("c.asset_id", q.assetId);
     if (q.siteId) base.where("ar.site_id", q.siteId);
     if (q.status) base.whereIn("c.status", q.status.split(","));

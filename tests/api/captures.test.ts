@@ -7,7 +7,7 @@ import { signedIn } from "../helpers/context.ts";
 import { captureFile, listFiles, makeMotor, makePipelineEnv, type PipelineEnv } from "../helpers/pipeline.ts";
 import { decimateMinMax } from "../../server/spectra.ts";
 import { storeCaptureAndQueue } from "../../server/captures/ingest.ts";
-import { CHECK_CHUNK_BYTES, checkFile, FileRejected } from "../../server/captures/upload.ts";
+import { CHECK_CHUNK_BYTES, checkFile, FileRejected, removeStaleUploadTemp } from "../../server/captures/upload.ts";
 import type { CaptureQueue } from "../../server/queue.ts";
 
 // Uploads without a worker running: what is stored, what is refused, and that a refusal leaves nothing behind.
@@ -180,7 +180,9 @@ describe("POST /api/captures", () => {
     expect(listFiles(`${env.dataDir}/tmp`)).toEqual([]);
   });
 
-  it("leaves nothing behind when the ingest fails after the files were moved into the blob store", async () => {
+  const analysisJobCount = async () => Number((await env.db.raw(`select count(*)::int as n from pgboss.job where name = 'capture-analysis'`)).rows[0].n);
+
+  it("leaves nothing behind when the ingest fails after the files were moved into the blob store: 503, try again", async () => {
     const real = env.ctx.services.queue as CaptureQueue;
     const blobsBefore = listFiles(env.blobDir).length;
     let blobsWhenQueueing = -1;
@@ -190,7 +192,7 @@ describe("POST /api/captures", () => {
       tempFilesWhenQueueing = listFiles(`${env.dataDir}/tmp`).length;
       throw new Error("queue unavailable");
     };
-    env.ctx.services.queue = Object.create(real, { sendAnalysis: { value: failing } });
+    env.ctx.services.queue = Object.create(real, { sendAnalyses: { value: failing } });
     try {
       const res = await refused((agent) =>
         agent
@@ -199,12 +201,85 @@ describe("POST /api/captures", () => {
           .attach("file", captureFile({ seed: 21 }), "first.csv")
           .attach("file", captureFile({ seed: 22, format: "wav" }), "second.wav"),
       );
-      expect(res.status).toBe(500);
+      expect(res.status).toBe(503);
+      expect(res.body).toEqual({ error: expect.stringMatching(/Nothing was stored: send the files again/), code: "unavailable" });
       // Both files had been moved (not copied) into the blob store when the queue failed; refused() saw them go.
       expect(blobsWhenQueueing).toBe(blobsBefore + 2);
       expect(tempFilesWhenQueueing).toBe(0);
     } finally {
       env.ctx.services.queue = real;
+    }
+  });
+
+  it("writes the rows and their jobs in one transaction: a failure after the jobs were written takes both back", async () => {
+    const real = env.ctx.services.queue as CaptureQueue;
+    const jobsBefore = await analysisJobCount();
+    let jobsInTransaction = -1;
+    // The jobs are inserted on the upload's transaction (visible in it), then the connection "drops" before COMMIT.
+    const writeThenFail: CaptureQueue["sendAnalyses"] = async (data, opts) => {
+      await real.sendAnalyses(data, opts);
+      jobsInTransaction = Number((await opts!.trx!.raw(`select count(*)::int as n from pgboss.job where name = 'capture-analysis'`)).rows[0].n);
+      throw Object.assign(new Error("Connection terminated unexpectedly"), { code: "ECONNRESET" });
+    };
+    env.ctx.services.queue = Object.create(real, { sendAnalyses: { value: writeThenFail } });
+    try {
+      const res = await refused((agent) => agent.post("/api/captures").field("assetId", String(assetId)).attach("file", captureFile({ seed: 23 }), "third.csv"));
+      expect(res.status).toBe(503);
+      expect(res.body.code).toBe("unavailable");
+      expect(jobsInTransaction).toBe(jobsBefore + 1);
+      expect(await analysisJobCount()).toBe(jobsBefore); // rolled back with the row
+    } finally {
+      env.ctx.services.queue = real;
+    }
+  });
+
+  it("a capture is never left received: row and job commit together, the row already queued", async () => {
+    const res = await (await signedIn(env.app, "analyst")).post("/api/captures").field("assetId", String(assetId)).attach("file", captureFile({ seed: 24 }), "fourth.csv");
+    expect(res.status).toBe(202);
+    const { id } = res.body.captures[0];
+    expect(await env.db("captures").where({ id }).first("status", "queued_at")).toMatchObject({ status: "queued", queued_at: expect.any(Date) });
+    const jobs = await env.db.raw(`select data from pgboss.job where name = 'capture-analysis' and (data->>'captureId')::int = ?`, [id]);
+    expect(jobs.rows.map((r: { data: unknown }) => r.data)).toEqual([{ captureId: id, version: 1 }]);
+    expect(await env.db("captures").where({ asset_id: assetId, status: "received" }).count({ n: "*" })).toEqual([{ n: "0" }]);
+  });
+});
+
+describe("upload temp folders left by a crash", () => {
+  it("removes upload-* folders and files untouched for an hour at start, keeps newer ones and anything else", async () => {
+    const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "barhound-tmp-sweep-"));
+    try {
+      const tmp = path.join(dataDir, "tmp");
+      const hoursAgo = (h: number) => new Date(Date.now() - h * 3_600_000);
+      const make = (rel: string, mtime: Date, dir = false) => {
+        const p = path.join(tmp, rel);
+        if (dir) fs.mkdirSync(p, { recursive: true });
+        else {
+          fs.mkdirSync(path.dirname(p), { recursive: true });
+          fs.writeFileSync(p, "x");
+        }
+        fs.utimesSync(p, mtime, mtime);
+        return p;
+      };
+      // A crashed upload: the folder and its half-received file, both two hours old.
+      make("upload-old/abc", hoursAgo(2));
+      make("upload-old", hoursAgo(2), true);
+      // An empty folder from a crash before any byte arrived, and a stray file of that name.
+      make("upload-empty", hoursAgo(3), true);
+      make("upload-stray", hoursAgo(5));
+      // An old folder whose file is still being written (another server on the same data folder): kept.
+      make("upload-busy/def", new Date());
+      make("upload-busy", hoursAgo(2), true);
+      make("upload-new", hoursAgo(0.5), true);
+      make("other-thing", hoursAgo(10), true);
+
+      const removed = await removeStaleUploadTemp(dataDir);
+      expect(removed.sort()).toEqual(["upload-empty", "upload-old", "upload-stray"]);
+      expect(fs.readdirSync(tmp).sort()).toEqual(["other-thing", "upload-busy", "upload-new"]);
+      // A shorter age takes the half-hour one too; nothing to do is fine, and so is a data folder without tmp/.
+      expect(await removeStaleUploadTemp(dataDir, { olderThanMs: 10 * 60_000 })).toEqual(["upload-new"]);
+      expect(await removeStaleUploadTemp(path.join(dataDir, "nowhere"))).toEqual([]);
+    } finally {
+      fs.rmSync(dataDir, { recursive: true, force: true });
     }
   });
 });
@@ -226,6 +301,46 @@ describe("GET /api/captures", () => {
     expect(mine.body.total).toBe(1);
   });
 
+  it("filters on taken_at with from/to: a date is the whole day (UTC), a date-time an instant, both ends included", async () => {
+    const { asset } = await makeMotor(env.db);
+    const takenAt = ["2026-10-01T08:00:00Z", "2026-10-15T12:00:00Z", "2026-10-31T23:30:00Z"];
+    await env.db("captures").insert(takenAt.map((t, i) => ({ asset_id: asset.id, taken_at: t, source: "upload", file_name: `r${i}.csv`, format: "csv", status: "analysed" })));
+    const agent = await signedIn(env.app, "manager");
+    const list = async (q: Record<string, string>) => {
+      const res = await agent.get("/api/captures").query({ assetId: asset.id, sort: "takenAt", ...q });
+      expect(res.status).toBe(200);
+      return res.body.items.map((c: { takenAt: string }) => new Date(c.takenAt).toISOString().replace(".000", ""));
+    };
+    expect(await list({})).toEqual(takenAt);
+    expect(await list({ from: "2026-10-10" })).toEqual(takenAt.slice(1));
+    expect(await list({ to: "2026-10-31" })).toEqual(takenAt);
+    expect(await list({ to: "2026-10-30" })).toEqual(takenAt.slice(0, 2));
+    expect(await list({ to: "2026-10-31T12:00:00Z" })).toEqual(takenAt.slice(0, 2));
+    expect(await list({ from: "2026-10-15T12:00:00Z", to: "2026-10-15T12:00:00Z" })).toEqual([takenAt[1]]);
+    expect(await list({ from: "2026-10-15T14:00:00+02:00" })).toEqual(takenAt.slice(1));
+    expect(await list({ from: "2026-10-01", to: "2026-10-01" })).toEqual([takenAt[0]]);
+    const total = (await agent.get("/api/captures").query({ assetId: asset.id, from: "2026-10-02", to: "2026-10-31" })).body.total;
+    expect(total).toBe(2);
+  });
+
+  it("refuses a bad from/to, a reversed range and a parameter it does not take, naming the field", async () => {
+    const agent = await signedIn(env.app, "manager");
+    const fields = async (qs: string) => {
+      const res = await agent.get(`/api/captures?${qs}`);
+      expect(res.status).toBe(400);
+      return res.body.fields as Record<string, string>;
+    };
+    expect((await fields("from=yesterday")).from).toMatch(/Use a date \(2026-10-01\)/);
+    expect((await fields("to=2026-02-30")).to).toBe("2026-02-30 is not a calendar date.");
+    expect((await fields("from=2026-10-01T08:00")).from).toMatch(/time zone/);
+    expect((await fields("from=2026-10-01T25:00:00Z")).from).toMatch(/Not a time of day/);
+    expect(await fields("from=2026-10-02&to=2026-10-01")).toEqual({ to: "to is before from: give from ≤ to." });
+    expect(await fields("from=2026-10-01T12:00:00Z&to=2026-10-01T11:59:59Z")).toEqual({ to: "to is before from: give from ≤ to." });
+    // Before, an unknown parameter was dropped and the whole list came back.
+    expect(await fields(`assetId=${assetId}&since=2026-10-01`)).toEqual({ since: 'Unknown field "since".' });
+    expect(await fields("colour=red&shade=dark")).toEqual({ colour: 'Unknown field "colour".', shade: 'Unknown field "shade".' });
+  });
+
   it("requeue is for analysts and admins only, and refuses a capture already waiting", async () => {
     const id = (await env.db("captures").where({ asset_id: assetId }).first("id")).id;
     expect((await (await signedIn(env.app, "technician")).post(`/api/captures/${id}/requeue`)).status).toBe(403);
@@ -245,7 +360,8 @@ describe("spectrum decimation", () => {
     expect(d.x).toHaveLength(2000);
     expect(Math.max(...d.max)).toBe(-12);
     const b = d.max.indexOf(-12);
-    expect(Math.abs(d.x[b] - 6543.21)).toBeLessThan((n / 2000) * 0.01);
+    expect(Math.abs(d.x[b] - 6543.21)).toBeLessThan((n / 2000) * 0.01); // the bucket's centre
+    expect(d.maxX[b]).toBe(654_321 * 0.01); // where its max is: the line's own bin
     expect(Math.min(...d.min)).toBeLessThan(-92.9);
     // A window holding ≤ buckets bins comes back at full resolution.
     const w = decimateMinMax({ x0: 0, dx: 0.01, values }, { xMin: 6543, xMax: 6544, buckets: 2000 });
@@ -269,11 +385,21 @@ describe("spectrum decimation", () => {
     expect(first.status).toBe(200);
     expect(first.body).toMatchObject({ channel: "Ia", unit: "dB", decimated: true, fMin: 0 });
     expect(first.body.hz).toHaveLength(2000);
+    expect(first.body.minHz).toHaveLength(2000);
+    expect(first.body.bucketHz).toBeCloseTo(first.body.fMax / 2000, 3);
     const zoom = await agent.get(`/api/captures/${stored.id}/spectrum?fmin=45&fmax=55&buckets=2000`);
     expect(zoom.body.decimated).toBe(false);
     expect(zoom.body.resolutionHz).toBeLessThan(0.05);
+    expect(zoom.body).toMatchObject({ minHz: null, bucketHz: null, binHz: first.body.binHz });
+    expect(zoom.body.hz[1] - zoom.body.hz[0]).toBeCloseTo(zoom.body.binHz, 9);
     const peak = zoom.body.hz[zoom.body.max.indexOf(Math.max(...zoom.body.max))];
     expect(peak).toBeCloseTo(50, 0);
+    // the full range puts the supply line at its own bin, the very number the narrow window gives, not half a
+    // bucket away
+    const atFull = first.body.hz[first.body.max.indexOf(Math.max(...first.body.max))];
+    expect(atFull).toBe(peak);
+    // the payload stays of the same order: four arrays of ≤ buckets numbers
+    expect(JSON.stringify(first.body).length).toBeLessThan(200_000);
   });
 });
 

@@ -64,7 +64,7 @@ describe("stuck-capture sweep", () => {
 
     const swept = await sweep();
     const reason = "Analysis did not finish after 2 attempts; re-queue it from the capture page.";
-    expect(swept.filter((s) => s.id === id)).toEqual([{ id, assetId: asset.id, attempts: 2, error: reason }]);
+    expect(swept.filter((s) => s.id === id)).toEqual([{ id, assetId: asset.id, attempts: 2, outcome: "failed", error: reason }]);
     expect(await capture(id)).toMatchObject({ status: "failed", error: reason });
     await waitFor(async () => events.some((e) => e.event === "capture:status" && e.payload.id === id && e.payload.status === "failed"), 5000, "capture:status failed");
     expect(events.find((e) => e.payload.id === id && e.payload.status === "failed")!.payload).toEqual({ id, assetId: asset.id, status: "failed", error: reason });
@@ -106,5 +106,44 @@ describe("stuck-capture sweep", () => {
     expect(ids).not.toContain(recent.id); // inside the grace period
     expect(await capture(old.id)).toMatchObject({ status: "failed", error: "Analysis did not finish after 1 attempt; re-queue it from the capture page." });
     expect((await capture(fresh.id)).status).toBe("queued");
+  });
+
+  it("a capture left received with no job (a server that died between the row and the job): queued again with its job", async () => {
+    const { asset } = await makeMotor(env.db);
+    const row = (name: string, minutesAgo: number) => ({
+      asset_id: asset.id, taken_at: new Date(Date.now() - minutesAgo * 60_000), source: "upload", file_name: `${name}.csv`, format: "csv", blob_key: `captures/${asset.id}/${name}.csv`,
+      status: "received", analysis_version: 1, updated_at: new Date(Date.now() - minutesAgo * 60_000),
+    });
+    const [older, lost, recent, withJob] = await env.db("captures").insert([row("older", 30), row("lost", 10), row("recent", 2), row("with-job", 10)]).returning("id");
+    // One whose job was sent before the crash (only the status update was lost): its job will move it on, leave it.
+    await queueOf(env.ctx).sendAnalyses([{ captureId: withJob.id, version: 1 }]);
+    const before = events.length;
+
+    // Without the queue the sweep cannot queue them, and leaves them as they are (never "failed").
+    const without = (await sweep()).map((s) => s.id);
+    expect(without).not.toContain(older.id);
+    expect(without).not.toContain(lost.id);
+    expect((await capture(lost.id)).status).toBe("received");
+
+    const swept = (await sweep({ queue: queueOf(env.ctx) })).filter((s) => s.assetId === asset.id);
+    expect(swept.map((s) => [s.id, s.outcome])).toEqual([
+      [older.id, "requeued"],
+      [lost.id, "requeued"],
+    ]);
+    for (const id of [older.id, lost.id]) {
+      expect(await capture(id)).toMatchObject({ status: "queued", error: null, queued_at: expect.any(Date) });
+      expect((await jobsOf(id)).map((j) => j.state)).toEqual(["created"]);
+    }
+    expect((await capture(recent.id)).status).toBe("received"); // younger than 5 minutes: an upload may still be on its way
+    expect((await capture(withJob.id)).status).toBe("received");
+    expect(await jobsOf(recent.id)).toEqual([]);
+    // Oldest capture first, as requeues are taken; and a capture:status event each.
+    const jobs = await env.db.raw(`select data->>'captureId' as id from pgboss.job where name = ? and data->>'captureId' = any(?) order by created_on, id`, [ANALYSIS_QUEUE, [String(older.id), String(lost.id)]]);
+    expect(jobs.rows.map((r: { id: string }) => Number(r.id))).toEqual([older.id, lost.id]);
+    await waitFor(async () => events.slice(before).filter((e) => e.event === "capture:status" && e.payload.status === "queued" && [older.id, lost.id].includes(e.payload.id as number)).length === 2, 5000, "capture:status queued");
+
+    // Once only: the next sweep (another worker's, say) finds them queued with a live job.
+    expect((await sweep({ queue: queueOf(env.ctx) })).map((s) => s.id)).not.toContain(lost.id);
+    expect(await jobsOf(lost.id)).toHaveLength(1);
   });
 });

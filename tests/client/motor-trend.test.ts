@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { FIT_POINTS, machineClass, sidebandProjection } from "../../src/features/motor/lib/trend.ts";
+import { FIT_POINTS, machineClass, sidebandProjection, truncationNote } from "../../src/features/motor/lib/trend.ts";
 import type { TrendPoint } from "../../src/features/motor/api/get-motor.ts";
 
 const point = (day: number, sidebandDb: number | null, rotorAssessable = true): TrendPoint => ({
@@ -40,5 +40,20 @@ describe("which captures feed the projection", () => {
     expect(used.every((u) => u.db > 50)).toBe(true);
     expect(outcome.kind).toBe("projection");
     if (outcome.kind === "projection") expect(outcome.projection.boundaryDb).toBe(48);
+  });
+});
+
+describe("the note when the server sent only the newest readings", () => {
+  const pts = Array.from({ length: 5000 }, (_, i) => point(i, 60));
+  it("says how many are shown, of how many, from when, and how many older ones are left out", () => {
+    // Noon UTC: the same calendar day in any time zone the tests run in.
+    expect(truncationNote({ points: pts, truncated: true, total: 6120, shownFrom: "2026-07-01T12:00:00Z" })).toBe(
+      "Showing the newest 5,000 of 6,120 readings, from 01 Jul 2026; the 1,120 older ones are not drawn.",
+    );
+    expect(truncationNote({ points: pts, truncated: true, total: 5001, shownFrom: pts[0].takenAt })).toMatch(/the 1 older one is not drawn\.$/);
+  });
+  it("is nothing when the answer holds the whole history, or has not come yet", () => {
+    expect(truncationNote({ points: pts.slice(0, 3), truncated: false, total: 3, shownFrom: pts[0].takenAt })).toBeNull();
+    expect(truncationNote(undefined)).toBeNull();
   });
 });

@@ -14,7 +14,7 @@ import type { AssetDetail, Capture, Finding, Inspection } from "../../lib/contra
 import { formatDate, formatDateTime } from "../../lib/format.ts";
 import { useCaptureDetail, useMotor, useMotorCaptureHistory, useMotorFindings, useMotorInspections, useMotorModel, useTrend } from "./api/get-motor.ts";
 import { LoadComparison, ModelCurves } from "./components/ModelCurves.tsx";
-import { ProjectionNote, Trends } from "./components/Trends.tsx";
+import { ProjectionNote, Trends, TrendTruncationNote } from "./components/Trends.tsx";
 import { MoveMotorButton } from "./components/MoveMotor.tsx";
 import { Bearings } from "./components/Bearings.tsx";
 import { EditMotorButton } from "./components/EditMotor.tsx";
@@ -83,6 +83,7 @@ export default function MotorPage() {
         <div className="flex min-w-0 flex-col gap-4">
           <CurrentState m={m} />
           <Section title="Trends">
+            <TrendTruncationNote answer={trend.data} />
             {trend.isPending ? <Spinner /> : trend.isError ? <ErrorNote error={trend.error} /> : <Trends asset={m} points={points} />}
             {points.length > 0 && (
               <div className="mt-4">

@@ -23,8 +23,19 @@ export interface TrendPoint {
   vibrationZone: string | null;
   supplyHz: number | null;
 }
+/**
+ * GET /assets/:id/trend. The answer holds at most `limit` points, the newest of the range, oldest first; `truncated`
+ * says the range holds more (`total` of them) and `shownFrom` is the date of the oldest point shown.
+ */
+export interface TrendAnswer {
+  points: TrendPoint[];
+  truncated: boolean;
+  total: number;
+  limit: number;
+  shownFrom: string | null;
+}
 export const trendQueryOptions = (id: number) =>
-  queryOptions({ queryKey: motorKeys.trend(id), queryFn: ({ signal }) => apiGet<{ points: TrendPoint[] }>(`/assets/${id}/trend`, undefined, signal) });
+  queryOptions({ queryKey: motorKeys.trend(id), queryFn: ({ signal }) => apiGet<TrendAnswer>(`/assets/${id}/trend`, undefined, signal) });
 export const useTrend = (id: number) => useQuery(trendQueryOptions(id));
 
 export interface MotorModelResponse {

@@ -6,10 +6,11 @@ import type { AssetDetail } from "../../../lib/contracts.ts";
 import { formatDate } from "../../../lib/format.ts";
 import { ROTOR_GRADE_NAMES, type RotorGrade } from "../../../engine/types.ts";
 import { ZONE_LIMITS_MM_S } from "../../../engine/vibration.ts";
+import { LIGHT_LOAD_PCT } from "../../../engine/rotor.ts";
 import { CurveChart, type CurveSeries, type GuideLine, type RegionLabel } from "../../../components/charts/CurveChart.tsx";
-import type { TrendPoint } from "../api/get-motor.ts";
+import type { TrendAnswer, TrendPoint } from "../api/get-motor.ts";
 import { bandHalfWidth, GRADE_BOUNDARIES_DB, type ProjectionOutcome } from "../lib/projection.ts";
-import { machineClass, sidebandProjection } from "../lib/trend.ts";
+import { machineClass, sidebandProjection, truncationNote } from "../lib/trend.ts";
 
 const DAY_MS = 86_400_000;
 const LINE = "#084c4e";
@@ -75,7 +76,7 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
           yRange={[0, Math.max(115, loadMax * 1.08)]}
           guides={[
             { y: 100, label: "100 % rated" },
-            { y: 45, label: "45 % light load: rotor grade not assessable below", shortLabel: "45 % light load", color: "rgba(107,77,0,0.8)" },
+            { y: LIGHT_LOAD_PCT, label: `${LIGHT_LOAD_PCT} % light load: rotor grade not assessable below`, shortLabel: `${LIGHT_LOAD_PCT} % light load`, color: "rgba(107,77,0,0.8)" },
           ]}
           height={220}
           label="Load percentage over time"
@@ -132,6 +133,17 @@ export function Trends({ asset, points }: { asset: AssetDetail; points: TrendPoi
         )}
       </TrendBox>
     </div>
+  );
+}
+
+/** One line above the charts when the server sent only the newest readings (its cap); nothing otherwise. */
+export function TrendTruncationNote({ answer }: { answer: TrendAnswer | undefined }) {
+  const note = truncationNote(answer);
+  if (!note) return null;
+  return (
+    <p className="mb-2 text-caption text-ink-muted" data-testid="trend-truncated">
+      {note}
+    </p>
   );
 }
 

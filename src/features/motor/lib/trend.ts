@@ -1,7 +1,8 @@
 // Pure helpers of the motor page's trends: the ISO 20816-3 machine class used for the zone lines, and which
-// captures feed the sideband projection.
+// captures feed the sideband projection, and the note when the server sent only the newest readings.
 import type { AssetDetail } from "../../../lib/contracts.ts";
-import type { TrendPoint } from "../api/get-motor.ts";
+import type { TrendAnswer, TrendPoint } from "../api/get-motor.ts";
+import { formatDate, formatNumber } from "../../../lib/format.ts";
 import { projectSideband, type ProjectionOutcome } from "./projection.ts";
 
 /** The fit uses the most recent graded captures, so an old, different regime does not dominate. */
@@ -25,3 +26,17 @@ export function sidebandProjection(points: TrendPoint[]): { outcome: ProjectionO
   return { outcome: projectSideband(used), used };
 }
 
+
+/**
+ * The one-line note when the trend answer holds only the newest readings of the motor's history (the server's cap),
+ * or null when it holds them all. The page has no range control, so the note says what is left out.
+ */
+export function truncationNote(answer: Pick<TrendAnswer, "truncated" | "total" | "points" | "shownFrom"> | undefined): string | null {
+  if (!answer?.truncated) return null;
+  const shown = answer.points.length;
+  const older = Math.max(0, answer.total - shown);
+  return (
+    `Showing the newest ${formatNumber(shown)} of ${formatNumber(answer.total)} readings, from ${formatDate(answer.shownFrom)}; ` +
+    `the ${formatNumber(older)} older ${older === 1 ? "one is" : "ones are"} not drawn.`
+  );
+}
