@@ -15,8 +15,8 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import { parseCapture, isCaptureParseError } from "../src/engine/parse/index.ts";
 import { captureToF32Frames } from "../server/gateway/assemble.ts";
-import { streamCapture, StreamRefused, type AbortOutcome } from "../server/gateway/stream-client.ts";
-import { CHANNEL_KINDS, frameBytes, type StreamChannel, type StreamError } from "../server/gateway/protocol.ts";
+import { abortStream, streamCapture, StreamRefused, type AbortOutcome } from "../server/gateway/stream-client.ts";
+import { CHANNEL_KINDS, findNonFiniteSample, frameBytes, type StreamChannel, type StreamError } from "../server/gateway/protocol.ts";
 import {
   STATE_FORMAT,
   defaultStateDir,
@@ -148,6 +148,17 @@ async function main() {
   const frames = captureToF32Frames(capture);
   const samples = capture.channels[0].data.length;
   const fileName = path.basename(values.file);
+  // The stream carries 32-bit floats: a value beyond their range (a CSV cell of 1e39, a 64-bit float WAV) would become
+  // Infinity, which the server refuses. Said here, before anything is sent.
+  const unfit = findNonFiniteSample(frames, channels.length);
+  if (unfit) {
+    const value = capture.channels[unfit.channel].data[unfit.frame];
+    fail(
+      `${fileName}: sample ${unfit.frame + 1} of channel ${unfit.channel + 1} (${capture.channels[unfit.channel].name}) is ${value}, ` +
+        (Number.isFinite(value) ? `beyond the range of the 32-bit float samples a stream carries (±3.4e38)` : `not a finite number`) +
+        `; nothing was sent. Correct the file and run the command again.`,
+    );
+  }
   const fileId = { path: path.resolve(values.file), size: bytes.length, mtimeMs, sha256: sha256(bytes) };
   const note = (text: string) => process.stderr.write(`gateway: ${text}\n`);
   const bar = progressBar(fileName);
@@ -275,8 +286,26 @@ async function main() {
     bar.done();
     if (writer) await writer.save(writer.state); // the latest count, for the next run's messages
     const refused = err instanceof StreamRefused ? err.error : null;
-    const pending = writer?.state ?? saved; // the stream a next run would resume
-    fail(failureText(err as Error, refused, { token, pending, stateFile, discarded: abortTold ? null : discarded }));
+    let pending = writer?.state ?? saved; // the stream a next run would resume
+    let dropped: string | null = null;
+    // Past the server's size limit, resuming cannot help: the session is aborted (its frames dropped now, not at the
+    // server's 48 h sweep) and the state removed, so a later run (a raised limit) streams the file from the start.
+    if (refused?.code === "stream-too-large" && writer) {
+      const sessionId = writer.state.sessionId;
+      const outcome = await abortStream({ url, token, sessionId, reason: "the capture is larger than the server's stream limit" }).catch((e: Error) => e);
+      if (!(outcome instanceof Error) && (outcome.result === "aborted" || outcome.result === "already-aborted")) {
+        await writer.remove();
+        pending = null;
+        dropped = `The partial stream ${sessionId} was dropped on the server.`;
+      } else {
+        const why = outcome instanceof Error ? outcome.message : "detail" in outcome ? outcome.detail : "error" in outcome ? outcome.error.message : outcome.result;
+        dropped =
+          `The partial stream ${sessionId} could not be dropped on the server (${why.replace(/\.$/, "")}); the server gives it up after 48 h. ` +
+          `Its state is kept (${stateFile}): a run after the limit is raised resumes it.`;
+        pending = null; // said above, instead of "run the same command again"
+      }
+    }
+    fail(failureText(err as Error, refused, { token, pending, stateFile, discarded: abortTold ? null : discarded, fileName, frameBytes: frames.length, dropped }));
   }
 }
 
@@ -284,11 +313,36 @@ async function main() {
 function failureText(
   err: Error,
   refused: StreamError | null,
-  o: { token: string; pending: GatewayState | null; stateFile: string; discarded: { state: GatewayState; why: string } | null },
+  o: {
+    token: string;
+    pending: GatewayState | null;
+    stateFile: string;
+    discarded: { state: GatewayState; why: string } | null;
+    fileName: string;
+    frameBytes: number;
+    /** What became of a stream given up after the refusal (stream-too-large). */
+    dropped: string | null;
+  },
 ): string {
   const { pending, stateFile } = o;
   let text: string;
-  if (refused?.code === "unknown-token") {
+  if (refused?.code === "stream-too-large") {
+    // Decided on the code; the numbers are the server's when it gives them (its words are shown otherwise).
+    const { limitBytes, bytesReceived } = refused;
+    const said =
+      typeof limitBytes === "number" && typeof bytesReceived === "number"
+        ? `its limit of ${mib(limitBytes)} for one stream; it took the first ${mib(bytesReceived)}`
+        : `its limit for one stream (${refused.message.replace(/\.$/, "")})`;
+    text =
+      `the server refused the stream: ${o.fileName} is ${mib(o.frameBytes)} of samples, more than ${said}, and nothing more was sent. ` +
+      `Stream shorter captures, or ask the server's admin to raise the limit (UPLOAD_LIMIT_MB).`;
+    if (o.dropped) text += ` ${o.dropped}`;
+    if (pending) text += ` Run the same command again to resume stream ${pending.sessionId} (state in ${stateFile}).`;
+  } else if (refused?.code === "bad-frame" && refused.reason === "non-finite-sample") {
+    // The file must change to get past this; a run with the changed file starts over (and drops the saved stream).
+    const at = typeof refused.frame === "number" && typeof refused.channel === "number" ? ` (chunk ${refused.seq ?? "?"}, frame ${refused.frame}, channel ${refused.channel}; counted from 0)` : "";
+    text = `the server refused a sample that is not a finite number${at}: ${refused.message} Correct ${o.fileName} and run the command again; the interrupted stream is then begun anew.`;
+  } else if (refused?.code === "unknown-token") {
     // Not revoked: the token itself is wrong (mistyped, cut short, another server's), so checking it is the way on.
     const prefix = tokenPrefix(o.token);
     text =
@@ -307,6 +361,13 @@ function failureText(
   // The run gave a saved stream up but stopped before the server was asked to abandon it.
   if (o.discarded) text += ` The interrupted stream ${o.discarded.state.sessionId} is not resumed (${o.discarded.why}); the next run starts over too.`;
   return text;
+}
+
+/** "512 MiB", "3.2 MiB" or "900 KiB" (a size for one line). */
+function mib(bytes: number): string {
+  if (bytes < 1024 * 1024) return `${Math.round(bytes / 1024)} KiB`;
+  const m = bytes / (1024 * 1024);
+  return `${m >= 10 ? Math.round(m) : m.toFixed(1)} MiB`;
 }
 
 /** What differs in the begin parameters from the saved stream's ("the sample rate is now 5000 Hz (was 10000 Hz)"), or null. */

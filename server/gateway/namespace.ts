@@ -3,22 +3,28 @@
 // Each gateway socket joins the room "gateway:<id>", so revoking a token can disconnect the device on whichever
 // server process it is connected to (the room broadcast goes through the PostgreSQL adapter).
 
+import fs from "node:fs/promises";
 import type { Namespace, Server, Socket } from "socket.io";
 import type { AppContext } from "../context.ts";
+import type { Config } from "../config.ts";
 import type { StoreCaptureInput } from "../captures/ingest.ts";
 import {
+  BYTES_PER_SAMPLE,
+  FLOAT_FORMATS,
   GATEWAY_NAMESPACE,
   MAX_CHUNK_BYTES,
   abortMessage,
   beginMessage,
   chunkMessage,
   endMessage,
+  findNonFiniteSample,
   frameBytes,
   type AbortAck,
   type Ack,
   type BeginAck,
   type ChunkAck,
   type EndAck,
+  type SampleFormat,
   type StreamError,
   type StreamErrorCode,
   type StreamErrorReasonOf,
@@ -28,16 +34,17 @@ import {
   abandonStaleSessions,
   abandonedText,
   abortSession,
+  assemblyPath,
   closedReason,
   createSession,
   getSession,
-  readFrames,
+  partPath,
   recordChunk,
   removePart,
   writeChunkAt,
   type StreamSession,
 } from "./session-store.ts";
-import { framesToWav } from "./assemble.ts";
+import { MAX_WAV_DATA_BYTES, writeStreamWav } from "./assemble.ts";
 
 /** Where a finished stream goes: storeCaptureAndQueue of server/captures/ingest.ts (tests may pass their own). */
 export type StoreCaptureFn = (ctx: AppContext, input: StoreCaptureInput) => Promise<{ id: number; status: string }>;
@@ -46,6 +53,15 @@ export const gatewayRoom = (gatewayId: number) => `gateway:${gatewayId}`;
 
 /** An open session untouched this long is abandoned (its part file deleted); a gateway resumes well within it. */
 export const STALE_SESSION_HOURS = 48;
+
+/**
+ * The most frame bytes one stream session may hold: the upload limit (UPLOAD_LIMIT_MB, 512 MB by default), as for a
+ * file uploaded in the browser, and never more than the 32-bit float WAV it becomes can hold (4 GiB).
+ */
+export function streamLimitBytes(config: Pick<Config, "uploadLimitBytes">, format: SampleFormat): number {
+  const wavBytesPerStreamByte = 4 / BYTES_PER_SAMPLE[format];
+  return Math.min(config.uploadLimitBytes, Math.floor(MAX_WAV_DATA_BYTES / wavBytesPerStreamByte));
+}
 
 /**
  * A refusal that becomes a stream:error event and an error acknowledgement. A gateway acts on `code` and `extra.reason`
@@ -165,6 +181,17 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
     const r = beginMessage.safeParse(raw);
     if (!r.success) throw new StreamRefusal("bad-request", `"begin" is not valid: ${describeIssues(r.error.issues)}`);
     const msg = r.data;
+    // The WAV stores count × scale as a 32-bit float: a scale that makes the largest count overflow to Infinity would
+    // only fail when the capture is analysed.
+    if (msg.sampleFormat !== "f32le") {
+      const largest = 2 ** (BYTES_PER_SAMPLE[msg.sampleFormat] * 8 - 1);
+      const ch = msg.channels.findIndex((c) => !Number.isFinite(Math.fround(largest * (c.scale ?? 1))));
+      if (ch >= 0)
+        throw new StreamRefusal(
+          "bad-request",
+          `"begin" is not valid: channels.${ch}.scale: ${msg.channels[ch].scale} units per count would make a ${msg.sampleFormat} count beyond the range of 32-bit floats (±3.4e38).`,
+        );
+    }
     await assertNotRevoked(gateway);
     void touch(gateway.id);
 
@@ -242,6 +269,35 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
             `${fb / s.channels.length} bytes (${s.sample_format}) = ${fb} bytes. Split chunks on frame boundaries.`,
           { seq, nextSeq: s.next_seq, reason: "partial-frame" },
         );
+      // A chunk that would take the stream past the limit is refused (not stored): the session stays open with what it
+      // holds, which the gateway keeps with "end" (totalChunks = nextSeq) or drops with "abort".
+      const limit = streamLimitBytes(config, s.sample_format);
+      if (s.bytes_received + data.length > limit)
+        throw new StreamRefusal(
+          "stream-too-large",
+          `Chunk ${seq} (${data.length} bytes) would take stream session ${s.id} past this server's limit of ${megabytes(limit)} (${limit} bytes) ` +
+            `for one stream; it holds ${s.bytes_received} bytes received in ${s.next_seq} chunk(s). ` +
+            (s.next_seq > 0
+              ? `Nothing past ${limit - s.bytes_received} more bytes is taken: send "end" with totalChunks ${s.next_seq} to keep what was received ` +
+                `as a capture, or "abort" to drop it.`
+              : `Send "abort" and stream a shorter capture.`),
+          { seq, nextSeq: s.next_seq, limitBytes: limit, bytesReceived: s.bytes_received },
+        );
+      // NaN or ±Infinity would be refused by the WAV reader when the capture is analysed: refuse it now, where the
+      // gateway can still send the chunk again (same seq) with the sample corrected.
+      if (FLOAT_FORMATS.has(s.sample_format)) {
+        const bad = findNonFiniteSample(data, s.channels.length);
+        if (bad) {
+          const first = s.bytes_received / fb;
+          throw new StreamRefusal(
+            "bad-frame",
+            `Chunk ${seq} holds a sample that is ${bad.value} rather than a finite number: frame ${bad.frame} of the chunk, channel ${bad.channel} ` +
+              `("${s.channels[bad.channel].name}"), both counted from 0 (frame ${first + bad.frame} of the stream). ` +
+              `Nothing of chunk ${seq} was stored; send it again with finite samples.`,
+            { seq, nextSeq: s.next_seq, reason: "non-finite-sample", frame: bad.frame, channel: bad.channel },
+          );
+        }
+      }
       await writeChunkAt(config, s.id, s.bytes_received, data);
       // If another connection stored this chunk in the meantime, it wrote the same bytes at the same offset.
       const advanced = await recordChunk(db, s.id, seq, data.length);
@@ -288,24 +344,35 @@ export function attachGatewayNamespace(io: Server, ctx: AppContext, resolveStore
         if (s.bytes_received === 0) throw new StreamRefusal("empty", `Stream session ${s.id} holds no samples; send chunks before "end".`);
 
         const frameCount = s.bytes_received / frameBytes(s.channels.length, s.sample_format);
-        const wav = framesToWav(await readFrames(config, s), { sampleRate: s.sample_rate, channels: s.channels, sampleFormat: s.sample_format });
+        // Written block by block to a file beside the part file, which the blob store then takes (moved when it can):
+        // memory stays bounded whatever the stream's length.
+        const wavFile = assemblyPath(config, s.id);
+        const layout = { sampleRate: s.sample_rate, channels: s.channels, sampleFormat: s.sample_format };
         const store = await resolveStore();
         const stamp = (s.taken_at ?? s.created_at).toISOString().replace(/[:.]/g, "-");
-        const stored = await store(ctx, {
-          assetId: s.asset_id,
-          ...(s.measurement_point_id !== null ? { measurementPointId: s.measurement_point_id } : {}),
-          takenAt: s.taken_at ?? s.created_at,
-          gatewayId: gateway.id,
-          source: "stream",
-          fileName: `${gateway.name.replace(/[^\w.-]+/g, "_")}-${stamp}.wav`,
-          format: "wav",
-          bytes: wav,
-          meta: {
-            sampleRate: s.sample_rate,
-            durationS: frameCount / s.sample_rate,
-            channels: s.channels.map((c) => ({ name: c.name, kind: c.kind, unit: c.unit, position: c.position ?? null })),
-          },
-        });
+        let stored: { id: number; status: string };
+        try {
+          await writeStreamWav(partPath(config, s.id), s.bytes_received, layout, wavFile);
+          stored = await store(ctx, {
+            assetId: s.asset_id,
+            ...(s.measurement_point_id !== null ? { measurementPointId: s.measurement_point_id } : {}),
+            takenAt: s.taken_at ?? s.created_at,
+            gatewayId: gateway.id,
+            source: "stream",
+            fileName: `${gateway.name.replace(/[^\w.-]+/g, "_")}-${stamp}.wav`,
+            format: "wav",
+            path: wavFile,
+            movePath: true,
+            meta: {
+              sampleRate: s.sample_rate,
+              durationS: frameCount / s.sample_rate,
+              channels: s.channels.map((c) => ({ name: c.name, kind: c.kind, unit: c.unit, position: c.position ?? null })),
+            },
+          });
+        } finally {
+          // Moved into the blob store already, or left by a failure (the S3 driver copies and leaves it to the caller).
+          await fs.rm(wavFile, { force: true });
+        }
         await trx("stream_sessions").where({ id: s.id }).update({ status: "ended", capture_id: stored.id, updated_at: trx.fn.now() });
         return { captureId: stored.id, status: stored.status, ended: true };
       });
@@ -345,6 +412,13 @@ function toBuffer(data: Buffer | ArrayBuffer | ArrayBufferView): Buffer {
   if (Buffer.isBuffer(data)) return data;
   if (data instanceof ArrayBuffer) return Buffer.from(data);
   return Buffer.from(data.buffer, data.byteOffset, data.byteLength);
+}
+
+/** "512 MiB", "2.5 MiB" or "3 KiB", for messages (UPLOAD_LIMIT_MB counts MiB). */
+function megabytes(bytes: number): string {
+  if (bytes < 1024 * 1024) return `${Math.round(bytes / 1024)} KiB`;
+  const mb = bytes / (1024 * 1024);
+  return `${mb >= 10 ? Math.round(mb) : Number(mb.toPrecision(2))} MiB`;
 }
 
 function describeIssues(issues: { path: PropertyKey[]; message: string }[]): string {

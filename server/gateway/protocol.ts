@@ -9,8 +9,11 @@
 //     → { sessionId, nextSeq, status, bytesReceived, captureId }   on resume: where the server stands ("where am I"),
 //                                                   so a gateway restarted from a saved state can check the offset and
 //                                                   see a stream that already ended (captureId) before sending anything
-//   chunk { sessionId, seq, data }                  data: the interleaved frames, little-endian, whole frames only
-//     → { seq, duplicate? }                         duplicate: this chunk was already stored, it was not appended again
+//   chunk { sessionId, seq, data }                  data: the interleaved frames, little-endian, whole frames only, f32le
+//     → { seq, duplicate? }                         samples finite; the stream at most `limitBytes` in all
+//                                                   duplicate: this chunk was already stored, it was not appended again
+//                                                   A refused chunk is not stored and next_seq does not move: the same
+//                                                   seq may be sent again (corrected), or the stream ended before it.
 //   end { sessionId, totalChunks }
 //     → { captureId, status }                       the capture is queued for analysis like an upload
 //   abort { sessionId, reason? }                    the gateway will not finish this open session: its stored frames are
@@ -101,6 +104,8 @@ export type StreamErrorCode =
   | "gap"
   | "bad-frame"
   | "chunk-too-large"
+  /** The chunk would take the stream past the server's size limit (`limitBytes`): the gateway ends the stream (or aborts). */
+  | "stream-too-large"
   | "incomplete"
   | "empty"
   | "revoked"
@@ -139,6 +144,8 @@ export const STREAM_ERROR_REASONS = {
     "empty-chunk",
     /** The chunk's length is not a whole number of frames. */
     "partial-frame",
+    /** A float sample (f32le) is NaN or ±Infinity: `frame` and `channel` name the first one within the chunk. */
+    "non-finite-sample",
   ],
   /** At connect (stream-client.ts): connect_error `data.reason` of a token to check. */
   "unknown-token": ["missing-token", "malformed-token", "unknown-token"],
@@ -161,6 +168,14 @@ export interface StreamError {
   nextSeq?: number;
   /** The capture an ended session became (an abort of it is refused: the capture exists). */
   captureId?: number | null;
+  /** "bad-frame" / "non-finite-sample": the first such sample's frame within the chunk (0-based) … */
+  frame?: number;
+  /** … and its channel (0-based, in the order of begin's `channels`). */
+  channel?: number;
+  /** "stream-too-large": the most frame bytes a stream session may hold on this server … */
+  limitBytes?: number;
+  /** … and how many the session holds (the refused chunk not counted). */
+  bytesReceived?: number;
 }
 
 export interface BeginAck {
@@ -195,4 +210,33 @@ export function isAckError<T>(ack: Ack<T>): ack is { error: StreamError } {
 
 export function frameBytes(channelCount: number, format: SampleFormat): number {
   return channelCount * BYTES_PER_SAMPLE[format];
+}
+
+/** Sample formats that can hold NaN or ±Infinity (integer counts cannot). */
+export const FLOAT_FORMATS: ReadonlySet<SampleFormat> = new Set(["f32le"]);
+
+const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1;
+
+/**
+ * The first NaN or ±Infinity sample of interleaved f32le frames (whole frames), or null when every sample is finite:
+ * its frame and channel (0-based) and its value. A Float32Array view over the bytes (copied when they do not start on
+ * a 4-byte boundary), so a 2 MiB chunk takes well under a millisecond.
+ */
+export function findNonFiniteSample(frames: Uint8Array, channelCount: number): { frame: number; channel: number; value: number } | null {
+  const n = frames.byteLength >>> 2;
+  if (!LITTLE_ENDIAN) {
+    const view = new DataView(frames.buffer, frames.byteOffset, frames.byteLength);
+    for (let i = 0; i < n; i++) {
+      const v = view.getFloat32(i * 4, true);
+      if (v - v !== 0) return { frame: Math.floor(i / channelCount), channel: i % channelCount, value: v };
+    }
+    return null;
+  }
+  const samples = frames.byteOffset % 4 === 0 ? new Float32Array(frames.buffer, frames.byteOffset, n) : new Float32Array(new Uint8Array(frames.subarray(0, n * 4)).buffer);
+  for (let i = 0; i < n; i++) {
+    const v = samples[i];
+    // v - v is 0 for every finite number, NaN for NaN and ±Infinity.
+    if (v - v !== 0) return { frame: Math.floor(i / channelCount), channel: i % channelCount, value: v };
+  }
+  return null;
 }

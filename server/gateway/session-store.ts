@@ -4,7 +4,8 @@
 // Why positional writes instead of appending: a chunk is written at offset bytes_received and only then is the row
 // advanced. If the process dies between the two, the file holds a tail the row does not count; the resent chunk
 // overwrites exactly that tail, and assembly reads only bytes_received bytes. Appending would leave the tail
-// in place and shift every later frame.
+// in place and shift every later frame. At "end" the frames are converted block by block into
+// <sessionId>.assembling.wav beside the part file, which the blob store then takes (never read whole into memory).
 
 import crypto from "node:crypto";
 import fs from "node:fs/promises";
@@ -39,6 +40,14 @@ export function streamsDir(config: Config): string {
 
 export function partPath(config: Config, sessionId: string): string {
   return path.join(streamsDir(config), `${sessionId}.part`);
+}
+
+/**
+ * Where "end" writes the session's WAV before handing it to the blob store (which moves it into place). One per
+ * session: the row lock lets only one "end" assemble at a time, and a retried one overwrites what a crash left.
+ */
+export function assemblyPath(config: Config, sessionId: string): string {
+  return path.join(streamsDir(config), `${sessionId}.assembling.wav`);
 }
 
 function fromRow(row: Record<string, unknown>): StreamSession {
@@ -108,25 +117,10 @@ export async function recordChunk(db: Knex, sessionId: string, seq: number, byte
   return n === 1;
 }
 
-/** The stored frames: exactly bytes_received bytes of the part file. */
-export async function readFrames(config: Config, session: StreamSession): Promise<Buffer> {
-  const fh = await fs.open(partPath(config, session.id), "r");
-  try {
-    const buf = Buffer.alloc(session.bytes_received);
-    let done = 0;
-    while (done < buf.length) {
-      const { bytesRead } = await fh.read(buf, done, buf.length - done, done);
-      if (bytesRead === 0) throw new Error(`The stored stream ${session.id} is shorter than recorded (${done} of ${buf.length} bytes).`);
-      done += bytesRead;
-    }
-    return buf;
-  } finally {
-    await fh.close();
-  }
-}
-
+/** Delete the session's frames (and a WAV an interrupted "end" may have left). */
 export async function removePart(config: Config, sessionId: string): Promise<void> {
   await fs.rm(partPath(config, sessionId), { force: true });
+  await fs.rm(assemblyPath(config, sessionId), { force: true });
 }
 
 /**

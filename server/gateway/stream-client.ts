@@ -273,6 +273,22 @@ function abortOld(socket: Socket, sessionId: string, reason: string | undefined,
   });
 }
 
+/**
+ * Abort one session on a connection of its own: for a gateway that gives a stream up after `streamCapture` stopped
+ * (the server refused it as "stream-too-large", say), so the server drops its frames now rather than at its sweep.
+ * Rejects when the server cannot be reached or the token is refused; otherwise resolves with how the abort went.
+ */
+export async function abortStream(opts: { url: string; token: string; sessionId: string; reason?: string; timeoutMs?: number }): Promise<AbortOutcome> {
+  const socket = io(opts.url.replace(/\/+$/, "") + GATEWAY_NAMESPACE, { auth: { token: opts.token }, transports: ["websocket"], reconnection: false, forceNew: true });
+  try {
+    await connected(socket);
+    return await abortOld(socket, opts.sessionId, opts.reason, opts.timeoutMs ?? 5000);
+  } finally {
+    socket.removeAllListeners();
+    socket.disconnect();
+  }
+}
+
 /** connect_error data.reason → the error code a gateway acts on (an older server gives no reason). */
 const REFUSAL_CODES: Record<ConnectRefusal, StreamError["code"]> = {
   "missing-token": "unknown-token",

@@ -12,12 +12,20 @@ import type { BlobStore } from "../../server/blob/index.ts";
 import type { AnalysisJobData, CaptureQueue } from "../../server/queue.ts";
 import { parseCapture, writeCsv, writeWav } from "../../src/engine/parse/index.ts";
 import type { Capture } from "../../src/engine/types.ts";
-import { captureToF32Frames } from "../../server/gateway/assemble.ts";
+import { captureToF32Frames, framesToWav, type StreamLayout } from "../../server/gateway/assemble.ts";
 import http from "node:http";
 import { Server as IoServer } from "socket.io";
 import { streamCapture, StreamRefused, type AbortOutcome } from "../../server/gateway/stream-client.ts";
 import { abandonStaleSessions, partPath } from "../../server/gateway/session-store.ts";
-import { MAX_CHUNK_BYTES, STREAM_ERROR_REASONS, type StreamError, type StreamErrorCode, type StreamErrorReason } from "../../server/gateway/protocol.ts";
+import {
+  MAX_CHUNK_BYTES,
+  STREAM_ERROR_REASONS,
+  findNonFiniteSample,
+  type StreamChannel,
+  type StreamError,
+  type StreamErrorCode,
+  type StreamErrorReason,
+} from "../../server/gateway/protocol.ts";
 
 const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), "bh-gateway-"));
 const jobs: AnalysisJobData[] = [];
@@ -94,7 +102,7 @@ beforeAll(async () => {
     blob = createFsBlobStore(path.join(dataDir, "blobs"));
     ctx.services.blob = blob;
     // The analysis itself is not under test: a queue that only records the jobs it was given.
-    ctx.services.queue = { sendAnalysis: async (d: AnalysisJobData) => (jobs.push(d), `job-${jobs.length}`) } as unknown as CaptureQueue;
+    ctx.services.queue = { sendAnalyses: async (ds: AnalysisJobData[]) => void jobs.push(...ds) } as unknown as CaptureQueue;
   });
   motor = await insertMotor(env.db, "gs");
   otherSiteMotor = await insertMotor(env.db, "go");
@@ -261,6 +269,125 @@ describe("streamed captures", () => {
     expect(Number(row.bytes_received)).toBe(120);
   });
 
+  it("refuses a chunk holding NaN or ±Infinity, naming the sample; the same seq then takes the corrected chunk and ends as a capture", async () => {
+    const socket = await rawGateway(token);
+    const errors: StreamError[] = [];
+    socket.on("stream:error", (e) => errors.push(e));
+    const { sessionId } = await socket.emitWithAck("begin", { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" });
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 100) })).toEqual({ seq: 0 });
+    const good = frames3(300, 200);
+    /** Chunk 1 with one sample replaced: frame `frame`, channel `ch` of the chunk. */
+    const spoiled = (frame: number, ch: number, value: number) => {
+      const b = Buffer.from(good);
+      b.writeFloatLE(value, (frame * 3 + ch) * 4);
+      return b;
+    };
+
+    const nan = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: spoiled(4, 1, NaN) });
+    expect(refusal(nan, "bad-frame", "non-finite-sample")).toMatchObject({ sessionId, seq: 1, nextSeq: 1, frame: 4, channel: 1 });
+    // Chunk 0 held 100 frames, so frame 4 of chunk 1 is frame 104 of the stream.
+    expect(nan.error.message).toMatch(/Chunk 1 holds a sample that is NaN rather than a finite number: frame 4 of the chunk, channel 1 \("Ib"\).*frame 104 of the stream/);
+    const inf = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: spoiled(0, 0, Infinity) });
+    expect(refusal(inf, "bad-frame", "non-finite-sample")).toMatchObject({ seq: 1, nextSeq: 1, frame: 0, channel: 0 });
+    expect(inf.error.message).toMatch(/is Infinity rather than a finite number: frame 0 of the chunk, channel 0 \("Ia"\)/);
+    const negInf = await socket.emitWithAck("chunk", { sessionId, seq: 1, data: spoiled(199, 2, -Infinity) });
+    expect(refusal(negInf, "bad-frame", "non-finite-sample")).toMatchObject({ frame: 199, channel: 2, message: expect.stringMatching(/-Infinity.*channel 2 \("Ic"\)/) });
+
+    // Nothing of the refused chunks was stored: the session stands where it was.
+    let row = await env.db("stream_sessions").where({ id: sessionId }).first();
+    expect(row).toMatchObject({ next_seq: 1, status: "open" });
+    expect(Number(row.bytes_received)).toBe(1200);
+    expect(fs.statSync(partPath(env.config, sessionId)).size).toBe(1200);
+    // An "end" now counts only the chunk stored.
+    expect(refusal(await socket.emitWithAck("end", { sessionId, totalChunks: 2 }), "incomplete")).toMatchObject({ nextSeq: 1 });
+
+    // The corrected chunk, with the same seq, is taken; the stream ends as a capture of what was stored.
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 1, data: good })).toEqual({ seq: 1 });
+    const end = await socket.emitWithAck("end", { sessionId, totalChunks: 2 });
+    expect(end).toEqual({ captureId: expect.any(Number), status: "queued" });
+    expect(captureToF32Frames((await storedCapture(end.captureId)).capture).equals(frames3(0, 300))).toBe(true);
+    row = await env.db("stream_sessions").where({ id: sessionId }).first();
+    expect(row).toMatchObject({ status: "ended", next_seq: 2, capture_id: end.captureId });
+    await sleep(50);
+    expect(errors.map((e) => [e.code, e.reason])).toEqual([
+      ["bad-frame", "non-finite-sample"],
+      ["bad-frame", "non-finite-sample"],
+      ["bad-frame", "non-finite-sample"],
+      ["incomplete", undefined],
+    ]);
+
+    // Integer counts cannot be NaN: bytes that would read as NaN in f32 are an ordinary i16 count (-1).
+    const ints = await socket.emitWithAck("begin", { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS.slice(0, 2), sampleFormat: "i16le" });
+    expect(await socket.emitWithAck("chunk", { sessionId: ints.sessionId, seq: 0, data: Buffer.alloc(4 * 100, 0xff) })).toEqual({ seq: 0 });
+  });
+
+  it("finds the first non-finite sample through an unaligned view as through an aligned one", () => {
+    const samples = new Float32Array(3 * 1000).map((_, i) => i / 7);
+    expect(findNonFiniteSample(new Uint8Array(samples.buffer), 3)).toBeNull();
+    samples[3 * 517 + 2] = NaN;
+    samples[3 * 900] = -Infinity;
+    const aligned = new Uint8Array(samples.buffer);
+    expect(findNonFiniteSample(aligned, 3)).toEqual({ frame: 517, channel: 2, value: NaN });
+    // The same bytes starting at an odd offset of their buffer (socket.io may hand over such a Buffer).
+    const holder = new Uint8Array(aligned.length + 1);
+    holder.set(aligned, 1);
+    const unaligned = holder.subarray(1);
+    expect(unaligned.byteOffset % 4).toBe(1);
+    expect(findNonFiniteSample(unaligned, 3)).toEqual({ frame: 517, channel: 2, value: NaN });
+    expect(findNonFiniteSample(Buffer.from(holder.buffer, 1, aligned.length), 3)).toEqual({ frame: 517, channel: 2, value: NaN });
+    samples[3 * 517 + 2] = 1;
+    expect(findNonFiniteSample(aligned, 3)).toEqual({ frame: 900, channel: 0, value: -Infinity });
+  });
+
+  it("a long stream (several assembly blocks, chunks not aligned to them) ends as a WAV equal to the frames sent, in every sample format", async () => {
+    // 3 channels × 4 bytes at 10 kHz for 30 s = 3.6 MB: assembled in 1 MiB blocks, sent in 300 000-byte chunks.
+    const long = syntheticCapture(30, 10_000);
+    const frames = captureToF32Frames(long);
+    const result = await streamCapture({ url: server.url, token, assetId: motor.assetId, sampleRate: 10_000, channels: CHANNELS, sampleFormat: "f32le", frames, chunkBytes: 300_000 });
+    expect(result.totalChunks).toBe(Math.ceil(frames.length / 300_000));
+    const { row, capture } = await storedCapture(result.captureId);
+    expect(row).toMatchObject({ sample_rate: 10_000, channel_count: 3 });
+    expect(Number(row.duration_s)).toBeCloseTo(30, 9);
+    expect(capture.channels[0].data.length).toBe(300_000);
+    expect(captureToF32Frames(capture).equals(frames)).toBe(true);
+    // Byte for byte what the in-memory writer makes of the same frames (header, channel description, data).
+    const layout: StreamLayout = { sampleRate: 10_000, channels: CHANNELS, sampleFormat: "f32le" };
+    const stored = await blob.get(row.blob_key);
+    expect(Number(row.byte_size)).toBe(stored.length);
+    expect(stored.equals(framesToWav(frames, layout))).toBe(true);
+
+    // Integer counts are scaled into floats block by block: 2 × i16 (2.4 MB) and 1 × i32 (1.6 MB).
+    const counts = (n: number, nCh: number, bytes: 2 | 4) => {
+      const b = Buffer.alloc(n * nCh * bytes);
+      for (let i = 0; i < n * nCh; i++) {
+        const v = Math.round(Math.sin(i * 0.001) * (bytes === 2 ? 32767 : 2 ** 31 - 1));
+        if (bytes === 2) b.writeInt16LE(v, i * 2);
+        else b.writeInt32LE(v, i * 4);
+      }
+      return b;
+    };
+    const scaled: StreamChannel[] = [
+      { name: "Ia", kind: "current", unit: "A", scale: 0.01 },
+      { name: "acc", kind: "vibration", unit: "m/s2", position: "H", scale: 0.37 },
+    ];
+    for (const [format, channels, data] of [
+      ["i16le", scaled, counts(600_000, 2, 2)],
+      ["i32le", [{ ...scaled[0], scale: 1e-6 }], counts(400_000, 1, 4)],
+    ] as const) {
+      const r = await streamCapture({ url: server.url, token, assetId: motor.assetId, sampleRate: 20_000, channels: [...channels], sampleFormat: format, frames: data, chunkBytes: 256 * 1000 });
+      const got = await storedCapture(r.captureId);
+      expect((await blob.get(got.row.blob_key)).equals(framesToWav(data, { sampleRate: 20_000, channels: [...channels], sampleFormat: format })), format).toBe(true);
+      const bps = format === "i16le" ? 2 : 4;
+      for (const i of [0, 1, 12_345, data.length / bps - 1]) {
+        const ch = i % channels.length;
+        const count = bps === 2 ? data.readInt16LE(i * 2) : data.readInt32LE(i * 4);
+        expect(got.capture.channels[ch].data[Math.floor(i / channels.length)], `${format} sample ${i}`).toBe(Math.fround(count * channels[ch].scale!));
+      }
+    }
+    // Nothing is left beside the part files once the streams ended.
+    expect(fs.readdirSync(path.join(dataDir, "streams")).filter((f) => f.includes(result.sessionId))).toEqual([]);
+  });
+
   it("refuses bad begins: unknown motor or point, a motor on another site, another gateway's session, a fractional rate", async () => {
     const socket = await rawGateway(token);
     const base = { sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" };
@@ -268,6 +395,10 @@ describe("streamed captures", () => {
     refusal(await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, measurementPointId: otherSiteMotor.pointId }), "unknown-asset", "unknown-point");
     refusal(await socket.emitWithAck("begin", { ...base, assetId: otherSiteMotor.assetId }), "wrong-site");
     expect(refusal(await socket.emitWithAck("begin", { ...base, assetId: motor.assetId, sampleRate: 999.5 }), "bad-request").message).toMatch(/whole number of Hz/);
+    // A scale that would turn the largest integer count into Infinity in the stored 32-bit float WAV.
+    const huge = [{ ...CHANNELS[0], scale: 1 }, { ...CHANNELS[1], scale: 1e35 }];
+    expect(refusal(await socket.emitWithAck("begin", { ...base, channels: huge, sampleFormat: "i16le", assetId: motor.assetId }), "bad-request").message).toMatch(/channels\.1\.scale/);
+    expect(await socket.emitWithAck("begin", { ...base, channels: [{ ...CHANNELS[0], scale: 1e35 }], sampleFormat: "f32le", assetId: motor.assetId })).toMatchObject({ nextSeq: 0 });
     const other = await newGateway("Second gateway");
     const otherSocket = await rawGateway(other.token);
     const { sessionId } = await otherSocket.emitWithAck("begin", { ...base, assetId: motor.assetId });
@@ -471,6 +602,89 @@ describe("streamed captures", () => {
     expect(captureToF32Frames(capture).equals(captureToF32Frames(parseCapture(fs.readFileSync(file))))).toBe(true);
     // The state of a finished stream is deleted.
     expect(fs.readdirSync(stateDir)).toEqual([]);
+  });
+  it("the command-line gateway refuses a file with a value beyond 32-bit float range before sending anything", async () => {
+    const original = syntheticCapture(0.5, 5000);
+    original.channels[1].data[7] = 1e39; // finite in the CSV (64-bit), Infinity as a stream's 32-bit sample
+    const file = path.join(dataDir, "overflow.csv");
+    fs.writeFileSync(file, writeCsv(original));
+    const sessionsBefore = Number((await env.db("stream_sessions").where({ gateway_id: gatewayId }).count("* as n").first())!.n);
+    const run = await runGatewayCli(["--file", file, "--asset", String(motor.assetId), "--token", token, "--url", server.url, "--state-dir", path.join(dataDir, "state-overflow")]);
+    expect(run.code).toBe(1);
+    expect(run.stderr).toMatch(/gateway: overflow\.csv: sample 8 of channel 2 \(Ib\) is 1e\+39, beyond the range of the 32-bit float samples a stream carries.*nothing was sent/);
+    expect(Number((await env.db("stream_sessions").where({ gateway_id: gatewayId }).count("* as n").first())!.n)).toBe(sessionsBefore);
+  });
+});
+
+describe("a server with a low stream limit", { timeout: 60_000 }, () => {
+  // Its own app and socket.io server on the same database, with an upload (and so stream) limit of 3000 bytes.
+  const LIMIT = 3000;
+  const limitDir = path.join(dataDir, "limited");
+  let small: TestEnv;
+  let smallServer: TestServer;
+  let smallBlob: BlobStore;
+  let smallToken: string;
+
+  beforeAll(async () => {
+    small = await makeTestEnv({ dataDir: limitDir, uploadLimitBytes: LIMIT }, (ctx) => {
+      smallBlob = createFsBlobStore(path.join(limitDir, "blobs"));
+      ctx.services.blob = smallBlob;
+      ctx.services.queue = { sendAnalyses: async (ds: AnalysisJobData[]) => void jobs.push(...ds) } as unknown as CaptureQueue;
+    });
+    smallServer = await startTestServer(small);
+    const admin = await signedIn(small.app, "admin");
+    const res = await admin.post("/api/gateways").send({ name: "Gateway of the small server", siteId: motor.siteId });
+    expect(res.status).toBe(201);
+    smallToken = res.body.token;
+  });
+  afterAll(async () => {
+    await smallServer?.close();
+    await small?.close();
+  });
+
+  it("refuses the chunk that would pass the limit, saying the limit and what it holds; the stream can end with what it has", async () => {
+    const socket = ioClient(`${smallServer.url}/gateway`, { auth: { token: smallToken }, transports: ["websocket"], reconnection: false, forceNew: true });
+    sockets.push(socket);
+    await new Promise((resolve, reject) => (socket.once("connect", () => resolve(null)), socket.once("connect_error", reject)));
+    const { sessionId } = await socket.emitWithAck("begin", { assetId: motor.assetId, sampleRate: 1000, channels: CHANNELS, sampleFormat: "f32le" });
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 0, data: frames3(0, 100) })).toEqual({ seq: 0 });
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 1, data: frames3(300, 100) })).toEqual({ seq: 1 });
+    // 2400 bytes held; 1200 more would make 3600.
+    const over = await socket.emitWithAck("chunk", { sessionId, seq: 2, data: frames3(600, 100) });
+    expect(refusal(over, "stream-too-large")).toMatchObject({ sessionId, seq: 2, nextSeq: 2, limitBytes: LIMIT, bytesReceived: 2400 });
+    expect(over.error.message).toMatch(/limit of .* \(3000 bytes\) for one stream; it holds 2400 bytes received in 2 chunk\(s\).*"end" with totalChunks 2/);
+    // Up to the limit exactly is taken; a byte past it is not (the refused chunks are not stored).
+    expect(await socket.emitWithAck("chunk", { sessionId, seq: 2, data: frames3(600, 50) })).toEqual({ seq: 2 });
+    refusal(await socket.emitWithAck("chunk", { sessionId, seq: 3, data: frames3(750, 1) }), "stream-too-large");
+    const row = await small.db("stream_sessions").where({ id: sessionId }).first();
+    expect(row).toMatchObject({ status: "open", next_seq: 3 });
+    expect(Number(row.bytes_received)).toBe(LIMIT);
+
+    const end = await socket.emitWithAck("end", { sessionId, totalChunks: 3 });
+    expect(end).toEqual({ captureId: expect.any(Number), status: "queued" });
+    const stored = await small.db("captures").where({ id: end.captureId }).first();
+    const capture = parseCapture(await smallBlob.get(stored.blob_key), { fileName: stored.file_name, minSamples: 0 });
+    expect(captureToF32Frames(capture).equals(frames3(0, 250))).toBe(true);
+  });
+
+  it("the command-line gateway stops at the limit with one clear line, drops the partial stream and keeps no state", async () => {
+    const file = path.join(dataDir, "too-long.wav");
+    fs.writeFileSync(file, writeWav(syntheticCapture(0.2, 5000))); // 1000 frames × 12 bytes = 12 000 bytes of samples
+    const stateDir = path.join(dataDir, "state-limit");
+    const known: string[] = await small.db("stream_sessions").pluck("id");
+    const run = await runGatewayCli(["--file", file, "--asset", String(motor.assetId), "--token", smallToken, "--url", smallServer.url, "--chunk-kb", "1", "--state-dir", stateDir]);
+    expect(run.code, run.stderr).toBe(1);
+    expect(run.stdout).toBe("");
+    const [line, ...others] = run.stderr.split("\n").filter((l) => l.includes("refused"));
+    expect(others).toEqual([]);
+    expect(line).toMatch(/^gateway: the server refused the stream: too-long\.wav is 12 KiB of samples, more than its limit of 3 KiB for one stream; it took the first 2 KiB, and nothing more was sent\./);
+    expect(line).toMatch(/Stream shorter captures, or ask the server's admin to raise the limit/);
+    const [made] = await small.db("stream_sessions").whereNotIn("id", known);
+    expect(line).toContain(`The partial stream ${made.id} was dropped on the server.`);
+    expect(line).not.toMatch(/Run the same command again/);
+    expect(made).toMatchObject({ status: "aborted", aborted_by: "gateway", abort_reason: expect.stringMatching(/larger than the server's stream limit/), capture_id: null });
+    expect(fs.existsSync(partPath(small.config, made.id))).toBe(false);
+    expect(fs.existsSync(stateDir) ? fs.readdirSync(stateDir) : []).toEqual([]);
   });
 });
 
@@ -691,6 +905,9 @@ describe("the command-line gateway decides on the refusal's code and reason, nev
   let acceptBegin = true;
   let resumeAnswer: StreamError = { code: "server", message: "unset" };
   let abortAnswer: StreamError = { code: "server", message: "unset" };
+  /** What every chunk is answered with; an abort is accepted while `abortAccepted`. */
+  let chunkAnswer: StreamError = { code: "wrong-site", message: "Zzz: not yours." };
+  let abortAccepted = false;
   let file = "";
   let stateDir = "";
 
@@ -703,8 +920,8 @@ describe("the command-line gateway decides on the refusal's code and reason, nev
         if (acceptBegin) return ack({ sessionId, nextSeq: 0 });
         ack({ error: { code: "unknown-asset", reason: "unknown-motor", message: "Zzz: no such thing here." } });
       });
-      s.on("chunk", (_msg: unknown, ack: (a: unknown) => void) => ack({ error: { code: "wrong-site", message: "Zzz: not yours." } }));
-      s.on("abort", (_msg: unknown, ack: (a: unknown) => void) => ack({ error: abortAnswer }));
+      s.on("chunk", (_msg: unknown, ack: (a: unknown) => void) => ack({ error: chunkAnswer }));
+      s.on("abort", (msg: { sessionId: string }, ack: (a: unknown) => void) => ack(abortAccepted ? { sessionId: msg.sessionId, status: "aborted" } : { error: abortAnswer }));
     });
     await new Promise<void>((r) => fakeHttp.listen(0, "127.0.0.1", () => r()));
     fakeUrl = `http://127.0.0.1:${(fakeHttp.address() as { port: number }).port}`;
@@ -772,5 +989,43 @@ describe("the command-line gateway decides on the refusal's code and reason, nev
     abortAnswer = answer;
     const line = await toldAbout("--fresh");
     expect(line).toMatch(new RegExp(`^gateway: --fresh: .*${expected.replace(/[()]/g, "\\$&")}; starting a new one\\.$`));
+  });
+
+  // Chunk refusals: the saved stream's resume is refused (unknown-session), a new one is begun and its first chunk refused.
+  async function chunkRefused(answer: StreamError) {
+    resumeAnswer = { code: "unknown-session", message: "Zzz: who?", sessionId };
+    chunkAnswer = answer;
+    acceptBegin = true;
+    try {
+      const run = await runGatewayCli(cliArgs());
+      expect(run.code, run.stderr).toBe(1);
+      const lines = run.stderr.split("\n").filter((l) => l.startsWith("gateway: the server refused"));
+      expect(lines, run.stderr).toHaveLength(1);
+      return lines[0];
+    } finally {
+      acceptBegin = false;
+      chunkAnswer = { code: "wrong-site", message: "Zzz: not yours." };
+    }
+  }
+
+  it("a chunk refused with bad-frame non-finite-sample, reworded, says a sample is not finite and keeps the state", async () => {
+    const line = await chunkRefused({ code: "bad-frame", reason: "non-finite-sample", message: "Zzz: partial frame, too large.", sessionId, seq: 0, nextSeq: 0, frame: 3, channel: 2 });
+    expect(line).toMatch(/^gateway: the server refused a sample that is not a finite number \(chunk 0, frame 3, channel 2; counted from 0\): Zzz: partial frame, too large\. Correct decisions\.wav/);
+    expect(line).not.toMatch(/limit/);
+    expect(fs.readdirSync(stateDir)).toHaveLength(1);
+  });
+
+  it("a chunk refused with stream-too-large, reworded, says the limit and drops the partial stream (state removed)", async () => {
+    abortAccepted = true;
+    try {
+      const line = await chunkRefused({ code: "stream-too-large", message: "Zzz: partial frame, not finite.", sessionId, seq: 0, nextSeq: 0, limitBytes: 1024 * 1024, bytesReceived: 0 });
+      expect(line).toMatch(/^gateway: the server refused the stream: decisions\.wav is \d+ KiB of samples, more than its limit of 1\.0 MiB for one stream; it took the first 0 KiB, and nothing more was sent\./);
+      expect(line).toContain(`The partial stream ${sessionId} was dropped on the server.`);
+      // With the numbers given, the server's words (which here name other cases) are not needed.
+      expect(line).not.toMatch(/not a finite number|Zzz/);
+      expect(fs.readdirSync(stateDir)).toEqual([]);
+    } finally {
+      abortAccepted = false;
+    }
   });
 });
