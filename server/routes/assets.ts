@@ -154,7 +154,11 @@ export function assetRoutes(ctx: AppContext) {
     const body = parseOr400(pointBody, req.body, "Invalid measurement point");
     if (!(await db("assets").where({ id: assetId }).first())) throw notFound("No such motor.");
     try {
-      const [p] = await db("measurement_points").insert({ asset_id: assetId, ...pointRow(body), unit: body.unit ?? DEFAULT_POINT_UNIT[body.kind] }).returning("*");
+      const p = await db.transaction(async (trx) => {
+        const [row] = await trx("measurement_points").insert({ asset_id: assetId, ...pointRow(body), unit: body.unit ?? DEFAULT_POINT_UNIT[body.kind] }).returning("*");
+        await audit(trx, { actor: req.user, action: "point.created", subjectType: "asset", subjectId: assetId, details: { pointId: row.id, name: row.name, kind: row.kind }, ip: req.ip });
+        return row;
+      });
       res.status(201).json(pointOut(p));
     } catch (err) {
       if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "This motor already has a point with this name" }, "conflict");
@@ -165,10 +169,15 @@ export function assetRoutes(ctx: AppContext) {
   r.patch("/points/:id", "assets.write", async (req, res) => {
     const id = idParam(req.params.id, "measurement point");
     const body = parseOr400(pointPatchBody, req.body, "Invalid measurement point");
-    if (!(await db("measurement_points").where({ id }).first())) throw notFound("No such measurement point.");
+    const before = await db("measurement_points").where({ id }).first();
+    if (!before) throw notFound("No such measurement point.");
     try {
       const row = pointRow(body);
-      if (Object.keys(row).length) await db("measurement_points").where({ id }).update(row);
+      if (Object.keys(row).length)
+        await db.transaction(async (trx) => {
+          await trx("measurement_points").where({ id }).update(row);
+          await audit(trx, { actor: req.user, action: "point.updated", subjectType: "asset", subjectId: before.asset_id, details: { pointId: id, fields: Object.keys(row) }, ip: req.ip });
+        });
     } catch (err) {
       if (isUnique(err)) throw new HttpError(409, `This motor already has a point named ${body.name}.`, { name: "This motor already has a point with this name" }, "conflict");
       throw err;
@@ -178,8 +187,11 @@ export function assetRoutes(ctx: AppContext) {
 
   r.delete("/points/:id", "assets.write", async (req, res) => {
     const id = idParam(req.params.id, "measurement point");
-    const n = await db("measurement_points").where({ id }).delete();
-    if (!n) throw notFound("No such measurement point.");
+    await db.transaction(async (trx) => {
+      const [gone] = await trx("measurement_points").where({ id }).delete().returning(["asset_id", "name"]);
+      if (!gone) throw notFound("No such measurement point.");
+      await audit(trx, { actor: req.user, action: "point.deleted", subjectType: "asset", subjectId: gone.asset_id, details: { pointId: id, name: gone.name }, ip: req.ip });
+    });
     res.status(204).end();
   });
 

@@ -292,6 +292,15 @@ describe("assets", () => {
     const detail = (await (await signedIn(env.app, "technician")).get(`/api/assets/${id}`)).body;
     expect(detail.measurementPoints).toEqual([expect.objectContaining({ id: point.body.id, kind: "current", ctRatio: 200 })]);
     expect((await admin.delete(`/api/points/${point.body.id}`)).status).toBe(204);
+    expect((await admin.delete(`/api/points/${point.body.id}`)).status).toBe(404);
+    // each change to a point is on the motor's audit trail
+    const trail = await env.db("audit_log").where({ subject_type: "asset", subject_id: String(id) }).where("action", "like", "point.%").orderBy("id");
+    expect(trail.map((t) => [t.action, t.details.pointId])).toEqual([
+      ["point.created", point.body.id],
+      ["point.updated", point.body.id],
+      ["point.deleted", point.body.id],
+    ]);
+    expect(trail[1].details.fields).toEqual(["ct_ratio"]);
 
     const model = await admin.get(`/api/assets/${id}/motor-model`);
     expect(model.status).toBe(200);
