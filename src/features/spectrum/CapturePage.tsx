@@ -140,6 +140,8 @@ export default function CapturePage() {
             <Section title="Finding">
               {findings.isPending ? (
                 <p className="text-ink-muted">Loading…</p>
+              ) : findings.isError ? (
+                <ErrorNote error={findings.error} />
               ) : own.length === 0 ? (
                 <p className="text-ink-muted">
                   This capture raised no finding.
