@@ -3,7 +3,7 @@ import { ROTOR_GRADE_NAMES, type RotorGrade } from "../../src/engine/types.ts";
 import { OPEN_STATUSES } from "../plan/workflow.ts";
 
 // Fleet health: where every motor stands by its current latest analysis, counted per site and area,
-// with the worst first, this week's grade changes, the load spread and the overdue inspections.
+// with the worst first, this week's rotor grade and vibration zone changes, the load spread and the overdue inspections.
 // One loader feeds the JSON view, the CSV export and the printable site report, so they never disagree.
 
 export const GRADES: RotorGrade[] = ["R1", "R2", "R3", "R4", "R5"];
@@ -67,13 +67,38 @@ export interface FleetSite extends Omit<FleetArea, "name"> {
   areas: FleetArea[];
 }
 
+/**
+ * A motor's rotor grade or vibration zone that differs from its previous one (each kind compared with the last
+ * analysis that had one: a not-assessable grade or a capture without vibration in between does not count),
+ * measured in the change window. `captureId` is the capture that showed it.
+ */
+export interface FleetChange {
+  kind: "rotor" | "vibration";
+  assetId: number;
+  tag: string;
+  name: string;
+  siteName: string;
+  areaName: string;
+  /** Rotor grade (R1..R5) or zone letter (A..D). */
+  from: string;
+  to: string;
+  /** "R2 Watch", "Zone C". */
+  fromLabel: string;
+  toLabel: string;
+  direction: "worse" | "better";
+  at: string;
+  analysisId: number;
+  captureId: number;
+}
+
 export interface FleetHealth {
   generatedAt: string;
   siteId: number | null;
   totals: { motors: number; grades: GradeCounts; zones: ZoneCounts; overdueInspections: number };
   sites: FleetSite[];
   worst: FleetMotor[];
-  changes: { assetId: number; tag: string; name: string; siteName: string; areaName: string; from: string; to: string; fromLabel: string; toLabel: string; direction: "worse" | "better"; at: string; analysisId: number }[];
+  /** Worst first (changeOrder). */
+  changes: FleetChange[];
   load: {
     binPct: number;
     underPct: number;
@@ -100,6 +125,27 @@ export function worstFirst(a: FleetMotor, b: FleetMotor): number {
   );
 }
 
+/** One scale for grades and zones, as the review queue's (worst = highest): R1..R5 → 1..5, zone A..D → 1..4. */
+export function changeLevelRank(kind: FleetChange["kind"], level: string): number {
+  return kind === "rotor" ? GRADES.indexOf(level as RotorGrade) + 1 : ZONES.indexOf(level as (typeof ZONES)[number]) + 1;
+}
+
+/**
+ * Worst first: changes for the worse before those for the better; then the level reached (R5 and zone D first),
+ * the size of the step (R2 → R5 before R4 → R5), the latest first, the tag.
+ */
+export function changeOrder(a: FleetChange, b: FleetChange): number {
+  const step = (c: FleetChange) => Math.abs(changeLevelRank(c.kind, c.to) - changeLevelRank(c.kind, c.from));
+  return (
+    (a.direction === "worse" ? 0 : 1) - (b.direction === "worse" ? 0 : 1) ||
+    changeLevelRank(b.kind, b.to) - changeLevelRank(a.kind, a.to) ||
+    step(b) - step(a) ||
+    Date.parse(b.at) - Date.parse(a.at) ||
+    a.tag.localeCompare(b.tag) ||
+    a.kind.localeCompare(b.kind)
+  );
+}
+
 /** Index of a load % in the histogram: [0,10) → 0 … [110,120) → 11, ≥ 120 → 12; below 0 counts in the first bin. */
 export function loadBin(pct: number): number {
   const top = LOAD_BIN_TOP_PCT / LOAD_BIN_PCT;
@@ -121,6 +167,26 @@ type Row = Record<string, any>;
 const num = (v: unknown) => (v === null || v === undefined ? null : Number(v));
 const iso = (v: unknown) => (v ? new Date(v as string).toISOString() : null);
 
+function changeOut(c: Row, kind: FleetChange["kind"]): FleetChange {
+  const label = (level: string) => (kind === "rotor" ? gradeLabel(level, true, true) : `Zone ${level}`);
+  return {
+    kind,
+    assetId: c.asset_id,
+    tag: c.tag,
+    name: c.name,
+    siteName: c.site_name,
+    areaName: c.area_name,
+    from: c.prev_level,
+    to: c.level,
+    fromLabel: label(c.prev_level),
+    toLabel: label(c.level),
+    direction: changeLevelRank(kind, c.level) > changeLevelRank(kind, c.prev_level) ? "worse" : "better",
+    at: iso(c.taken_at)!,
+    analysisId: c.id,
+    captureId: c.capture_id,
+  };
+}
+
 export async function loadFleetHealth(db: Knex, opts: { siteId?: number; now?: Date } = {}): Promise<FleetHealth> {
   const now = opts.now ?? new Date();
   const bySite = <T extends Knex.QueryBuilder>(q: T, col = "s.id") => (opts.siteId ? q.where(col, opts.siteId) : q);
@@ -140,7 +206,30 @@ export async function loadFleetHealth(db: Knex, opts: { siteId?: number; now?: D
     .select("i.asset_id", db.raw("count(*)::int as open"), db.raw("(count(*) filter (where i.due_date < (now() at time zone s2.timezone)::date))::int as overdue"))
     .as("ic");
 
-  const [sites, areas, rows, changeRows, overdueRows]: Row[][] = await Promise.all([
+  const since = new Date(now.getTime() - CHANGE_WINDOW_DAYS * 86_400_000);
+  const changeQuery = (kind: FleetChange["kind"]) => {
+    const col = kind === "rotor" ? "rotor_grade" : "vibration_zone";
+    return db
+      .with(
+        "seq",
+        db("analyses as an")
+          .where("an.is_current", true)
+          .modify((q) => (kind === "rotor" ? q.where("an.rotor_assessable", true) : q))
+          .whereNotNull(`an.${col}`)
+          .select("an.id", "an.asset_id", "an.capture_id", "an.taken_at", db.raw(`an.${col} as level`), db.raw(`lag(an.${col}) over (partition by an.asset_id order by an.taken_at, an.id) as prev_level`)),
+      )
+      .from("seq")
+      .join("assets as a", "a.id", "seq.asset_id")
+      .join("areas as ar", "ar.id", "a.area_id")
+      .join("sites as s", "s.id", "ar.site_id")
+      .whereNotNull("seq.prev_level")
+      .whereRaw("seq.prev_level <> seq.level")
+      .where("seq.taken_at", ">=", since)
+      .modify((q) => void bySite(q))
+      .select("seq.*", "a.tag", "a.name", "s.name as site_name", "ar.name as area_name");
+  };
+
+  const [sites, areas, rows, rotorChangeRows, zoneChangeRows, overdueRows]: Row[][] = await Promise.all([
     bySite(db("sites as s").orderBy("s.name").select("s.id", "s.code", "s.name", "s.timezone", db.raw("to_char((now() at time zone s.timezone)::date, 'YYYY-MM-DD') as today"))),
     bySite(db("areas as ar").join("sites as s", "s.id", "ar.site_id").orderBy("ar.name").select("ar.id", "ar.name", "ar.site_id")),
     bySite(
@@ -155,26 +244,9 @@ export async function loadFleetHealth(db: Knex, opts: { siteId?: number; now?: D
           "l.sideband_db", "l.load_pct", "l.vibration_rms", "l.vibration_zone", "ic.open", "ic.overdue",
         ),
     ),
-    // A change is an assessable grade that differs from the motor's previous assessable grade, taken in the window.
-    db
-      .with(
-        "seq",
-        db("analyses as an")
-          .where("an.is_current", true)
-          .where("an.rotor_assessable", true)
-          .whereNotNull("an.rotor_grade")
-          .select("an.id", "an.asset_id", "an.taken_at", "an.rotor_grade", db.raw("lag(an.rotor_grade) over (partition by an.asset_id order by an.taken_at, an.id) as prev_grade")),
-      )
-      .from("seq")
-      .join("assets as a", "a.id", "seq.asset_id")
-      .join("areas as ar", "ar.id", "a.area_id")
-      .join("sites as s", "s.id", "ar.site_id")
-      .whereNotNull("seq.prev_grade")
-      .whereRaw("seq.prev_grade <> seq.rotor_grade")
-      .where("seq.taken_at", ">=", new Date(now.getTime() - CHANGE_WINDOW_DAYS * 86_400_000))
-      .modify((q) => void bySite(q))
-      .orderBy("seq.taken_at", "desc")
-      .select("seq.*", "a.tag", "a.name", "s.name as site_name", "ar.name as area_name"),
+    // A change is an assessable grade (or a vibration zone) that differs from the motor's previous one, taken in the window.
+    changeQuery("rotor"),
+    changeQuery("vibration"),
     bySite(
       db("inspections as i")
         .join("assets as a", "a.id", "i.asset_id")
@@ -255,20 +327,7 @@ export async function loadFleetHealth(db: Knex, opts: { siteId?: number; now?: D
     totals: { ...count(motors), overdueInspections: overdueRows.length },
     sites: siteOut,
     worst: motors.filter((m) => m.gradeKey.startsWith("R") || zoneRank(m.vibrationZone) >= 2).slice(0, 10),
-    changes: changeRows.map((c) => ({
-      assetId: c.asset_id,
-      tag: c.tag,
-      name: c.name,
-      siteName: c.site_name,
-      areaName: c.area_name,
-      from: c.prev_grade,
-      to: c.rotor_grade,
-      fromLabel: gradeLabel(c.prev_grade, true, true),
-      toLabel: gradeLabel(c.rotor_grade, true, true),
-      direction: c.rotor_grade > c.prev_grade ? "worse" : "better",
-      at: iso(c.taken_at)!,
-      analysisId: c.id,
-    })),
+    changes: [...rotorChangeRows.map((c) => changeOut(c, "rotor")), ...zoneChangeRows.map((c) => changeOut(c, "vibration"))].sort(changeOrder),
     load: {
       binPct: LOAD_BIN_PCT,
       underPct: UNDERLOAD_PCT,

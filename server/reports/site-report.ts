@@ -71,7 +71,7 @@ export function renderSiteReport(fleet: FleetHealth, opts: { generatedBy?: strin
         .slice(0, 6)
         .map((c) => `<li><b>${esc(c.tag)}</b> ${esc(c.fromLabel)} → ${esc(c.toLabel)} (${c.direction}) <span class="num">${dateOf(c.at)}</span></li>`)
         .join("")}</ul>${fleet.changes.length > 6 ? `<p class="note">and ${fleet.changes.length - 6} more.</p>` : ""}`
-    : `<p class="empty">No rotor grade changed in the last 7 days.</p>`;
+    : `<p class="empty">No rotor grade or vibration zone changed in the last 7 days.</p>`;
 
   const hist = `
     <table class="hist">
@@ -149,7 +149,7 @@ export function renderSiteReport(fleet: FleetHealth, opts: { generatedBy?: strin
     <div class="kpi"><b>${site.motors}</b><span>motors</span></div>
     <div class="kpi"><b>${site.grades.R4 + site.grades.R5}</b><span>at R4 Serious or R5 Severe</span></div>
     <div class="kpi"><b>${site.zones.C + site.zones.D}</b><span>in vibration zone C or D</span></div>
-    <div class="kpi"><b>${fleet.changes.length}</b><span>grade changes, last 7 days</span></div>
+    <div class="kpi"><b>${fleet.changes.length}</b><span>grade and zone changes, last 7 days</span></div>
     <div class="kpi"><b>${site.overdueInspections}</b><span>overdue inspections</span></div>
   </section>
 

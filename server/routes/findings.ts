@@ -6,13 +6,21 @@ import { guardedRouter } from "../http.ts";
 import { notFound, parseOr400 } from "../errors.ts";
 import { audit } from "../audit.ts";
 import { verdictBody } from "../../src/shared/schemas/findings.ts";
-import { applySort, idParam, listQuery, paginate } from "../captures/paging.ts";
+import { applySort, applyTimeRange, idParam, listQuery, paginate, timeRangeFields } from "../captures/paging.ts";
 import { publishEvent } from "../captures/publish.ts";
+import { waitingSinceColumn } from "../reports/review-counts.ts";
 
 const FINDING_STATUSES = ["open", "confirmed", "dismissed", "remeasure"] as const;
 
 /** One scale for both kinds, worst = highest: rotor R2..R5 → 2..5, vibration zone C → 3, D → 4. */
 const SEVERITY = `(case f.level when 'R5' then 5 when 'R4' then 4 when 'R3' then 3 when 'R2' then 2 when 'D' then 4 when 'C' then 3 when 'B' then 2 else 1 end)`;
+/** What a finding's `level` holds: a rotor grade (R2 Watch … R5 Severe) or a vibration zone (B … D). */
+const FINDING_LEVELS = ["R2", "R3", "R4", "R5", "B", "C", "D"] as const;
+const levelList = z
+  .string()
+  .transform((s) => s.split(",").map((x) => x.trim().toUpperCase()).filter(Boolean))
+  .refine((l) => l.length > 0 && l.every((x) => (FINDING_LEVELS as readonly string[]).includes(x)), `One or more of: ${FINDING_LEVELS.join(", ")} (comma-separated)`);
+
 const CRITICALITY = `(case a.criticality when 'high' then 3 when 'medium' then 2 else 1 end)`;
 
 const FINDING_SORT: Record<string, string> = {
@@ -74,13 +82,17 @@ export function findingRoutes(ctx: AppContext) {
       status: z.string().optional().refine((s) => !s || s.split(",").every((x) => (FINDING_STATUSES as readonly string[]).includes(x)), `One or more of: ${FINDING_STATUSES.join(", ")}`),
       assetId: z.coerce.number().int().positive().optional(),
       siteId: z.coerce.number().int().positive().optional(),
-      kind: z.enum(["rotor", "vibration"]).optional(),
-    });
+      kind: z.enum(["rotor", "vibration"], { message: "kind is rotor or vibration" }).optional(),
+      level: levelList.optional(),
+      ...timeRangeFields, // on the finding's created_at
+    }, { strict: true });
     const base = findingBase(db);
     if (q.status) base.whereIn("f.status", q.status.split(","));
     if (q.assetId) base.where("f.asset_id", q.assetId);
     if (q.siteId) base.where("s.id", q.siteId);
     if (q.kind) base.where("f.kind", q.kind);
+    if (q.level) base.whereIn("f.level", q.level);
+    applyTimeRange(base, "f.created_at", q);
     const page = await paginate(base, (b) => applySort(findingSelect(b), q.sort, FINDING_SORT, "-createdAt", "f.id"), q, (x) => x);
     res.json({ ...page, items: await withVerdicts(db, page.items) });
   });
@@ -123,7 +135,7 @@ export function findingRoutes(ctx: AppContext) {
         if (q.siteId) b.where("ar.site_id", q.siteId);
       })
       .groupBy("f.capture_id")
-      .select("f.capture_id", db.raw(`max(${SEVERITY}) as severity`), db.raw(`max(${CRITICALITY}) as criticality`), db.raw("max(f.created_at) as raised_at"));
+      .select("f.capture_id", db.raw(`max(${SEVERITY}) as severity`), db.raw(`max(${CRITICALITY}) as criticality`), waitingSinceColumn(db)); // only findings still without a verdict
     const base = db.from(grouped.as("g")).join("captures as c", "c.id", "g.capture_id").join("assets as a", "a.id", "c.asset_id");
     const REVIEW_SORT = { severity: "g.severity", criticality: "g.criticality", raisedAt: "g.raised_at", takenAt: "c.taken_at", assetTag: "a.tag" };
     const page = await paginate(

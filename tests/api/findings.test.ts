@@ -160,3 +160,61 @@ describe("findings API", () => {
     expect((await env.db("verdicts").where({ finding_id: findingId })).length).toBe(2);
   });
 });
+
+describe("findings list filters: level, kind, from/to on the finding's creation", () => {
+  let assetId: number;
+  let manager: Awaited<ReturnType<typeof signedIn>>;
+  const ids: Record<string, number> = {};
+  const created: Record<string, string> = { "rotor:R3": "2026-10-08T09:00:00Z", "vibration:C": "2026-10-08T09:00:00Z", "rotor:R5": "2026-10-20T15:30:00Z", "vibration:D": "2026-11-02T06:00:00Z" };
+
+  beforeAll(async () => {
+    assetId = (await makeMotor(env.db)).asset.id;
+    await analysed(assetId, "2026-10-01T08:00:00Z", result("R1", 60, "A"));
+    await analysed(assetId, "2026-10-08T08:00:00Z", result("R3", 45, "C", 5.2));
+    await analysed(assetId, "2026-10-20T08:00:00Z", result("R5", 30));
+    await analysed(assetId, "2026-11-01T08:00:00Z", result(null, null, "D", 12));
+    for (const f of await env.db("findings").where({ asset_id: assetId })) {
+      const key = `${f.kind}:${f.level}`;
+      ids[key] = f.id;
+      // The rows are created now; set the creation times the filters are checked against.
+      await env.db("findings").where({ id: f.id }).update({ created_at: created[key] });
+    }
+    expect(Object.keys(ids).sort()).toEqual(Object.keys(created).sort());
+    manager = await signedIn(env.app, "manager");
+  });
+
+  const keysOf = async (q: Record<string, string>) => {
+    const res = await manager.get("/api/findings").query({ assetId, sort: "createdAt", ...q });
+    expect(res.status).toBe(200);
+    return res.body.items.map((f: { kind: string; level: string }) => `${f.kind}:${f.level}`).sort();
+  };
+
+  it("narrows by level (a comma list of grades and zones), kind and from/to", async () => {
+    expect(await keysOf({})).toEqual(["rotor:R3", "rotor:R5", "vibration:C", "vibration:D"]);
+    expect(await keysOf({ level: "R5" })).toEqual(["rotor:R5"]);
+    expect(await keysOf({ level: "r3,C" })).toEqual(["rotor:R3", "vibration:C"]);
+    expect(await keysOf({ level: "R4" })).toEqual([]);
+    expect(await keysOf({ kind: "vibration" })).toEqual(["vibration:C", "vibration:D"]);
+    expect(await keysOf({ kind: "rotor", level: "R3,R4,R5,D" })).toEqual(["rotor:R3", "rotor:R5"]);
+    expect(await keysOf({ from: "2026-10-09" })).toEqual(["rotor:R5", "vibration:D"]);
+    expect(await keysOf({ to: "2026-10-20" })).toEqual(["rotor:R3", "rotor:R5", "vibration:C"]);
+    expect(await keysOf({ to: "2026-10-20T15:00:00Z" })).toEqual(["rotor:R3", "vibration:C"]);
+    expect(await keysOf({ from: "2026-10-20T15:30:00Z", to: "2026-10-20T17:30:00+02:00" })).toEqual(["rotor:R5"]);
+    expect(await keysOf({ from: "2026-10-01", to: "2026-10-31", level: "R5,D" })).toEqual(["rotor:R5"]);
+  });
+
+  it("refuses a bad level, kind or date, a reversed range and a parameter it does not take, naming the field", async () => {
+    const fields = async (qs: string) => {
+      const res = await manager.get(`/api/findings?${qs}`);
+      expect(res.status).toBe(400);
+      return res.body.fields as Record<string, string>;
+    };
+    expect(await fields("level=A")).toEqual({ level: "One or more of: R2, R3, R4, R5, B, C, D (comma-separated)" });
+    expect((await fields("level=R5,R9")).level).toMatch(/One or more of/);
+    expect(await fields("kind=bearing")).toEqual({ kind: "kind is rotor or vibration" });
+    expect((await fields("from=last-week")).from).toMatch(/Use a date/);
+    expect((await fields("to=2026-13-01")).to).toMatch(/not a calendar date/);
+    expect(await fields("from=2026-11-01&to=2026-10-01")).toEqual({ to: "to is before from: give from ≤ to." });
+    expect(await fields(`assetId=${assetId}&grade=R5`)).toEqual({ grade: 'Unknown field "grade".' });
+  });
+});

@@ -70,12 +70,15 @@ beforeAll(async () => {
   await analysis("FLEETT-P4", { notAssessable: true, load: 20, at: ago(1) }); // light load: latest is not assessable
   await analysis("FLEETT-F1", { grade: "R2", db: 49, load: 90, zone: "B", at: ago(10) });
   await analysis("FLEETT-F1", { grade: "R4", db: 38, load: 95, zone: "C", rms: 5.2, at: ago(2) });
+  await analysis("FLEETT-F2", { grade: "R4", db: 37, load: 100, zone: "C", at: ago(9.5) }); // zone C → B: outside the window
   await analysis("FLEETT-F2", { grade: "R4", db: 37, load: 100, zone: "B", at: ago(9) });
   await analysis("FLEETT-F2", { grade: "R5", db: 35, load: 104, zone: "B", at: ago(8.5) }); // change outside the 7-day window
   await analysis("FLEETT-F2", { grade: "R5", db: 35, load: 105, zone: "B", rms: 2.5, at: ago(0.1) });
   await analysis("FLEETT-F3", { grade: "R2", db: 50, load: 45, zone: "A", at: ago(5) });
   await analysis("FLEETT-F3", { grade: "R1", db: 60, load: 40, zone: "A", rms: 0.9, at: ago(0.5) });
-  await analysis("FLEETT-F4", { grade: "R1", db: 59, load: 130, zone: "A", rms: 1.0, at: ago(4) });
+  await analysis("FLEETT-F4", { grade: "R1", db: 58, load: 125, zone: "C", rms: 5.0, at: ago(6) });
+  await analysis("FLEETT-F4", { load: 128, at: ago(5) }); // no vibration reading in between: the zone is compared across it
+  await analysis("FLEETT-F4", { grade: "R1", db: 59, load: 130, zone: "A", rms: 1.0, at: ago(4) }); // zone C → A: better
   await analysis("FLEETU-U1", { grade: "R5", db: 31, load: 80, zone: "D", at: ago(1) });
 
   const insp = (tag: string, due: number, status: string) => ({ asset_id: asset[tag], title: `Inspect ${tag} ${status} ${due}`, due_date: isoDay(due), status });
@@ -137,10 +140,36 @@ describe("GET /fleet", () => {
     ]);
   });
 
+  type Change = { kind: string; tag: string; from: string; to: string; direction: string; fromLabel: string; toLabel: string; at: string; analysisId: number; captureId: number };
+  const line = (c: Change) => `${c.tag} ${c.kind} ${c.from}→${c.to} ${c.direction}`;
+
   it("reports grade changes of the last 7 days only, ignoring superseded analyses", () => {
-    const changes = body.changes.map((c: { tag: string; from: string; to: string; direction: string }) => `${c.tag} ${c.from}→${c.to} ${c.direction}`).sort();
-    expect(changes).toEqual(["FLEETT-F1 R2→R4 worse", "FLEETT-F3 R2→R1 better", "FLEETT-P2 R2→R3 worse"]);
-    expect(body.changes.find((c: { tag: string }) => c.tag === "FLEETT-F1")).toMatchObject({ fromLabel: "R2 Watch", toLabel: "R4 Serious" });
+    const changes = (body.changes as Change[]).filter((c) => c.kind === "rotor").map(line).sort();
+    expect(changes).toEqual(["FLEETT-F1 rotor R2→R4 worse", "FLEETT-F3 rotor R2→R1 better", "FLEETT-P2 rotor R2→R3 worse"]);
+    expect(body.changes.find((c: Change) => c.tag === "FLEETT-F1" && c.kind === "rotor")).toMatchObject({ fromLabel: "R2 Watch", toLabel: "R4 Serious" });
+  });
+
+  it("reports vibration zone changes too, worse and better, each with when and the capture that showed it", async () => {
+    const zones = (body.changes as Change[]).filter((c) => c.kind === "vibration");
+    // P2 A→B and F1 B→C in the window; F4 C→A across an analysis without vibration; F2's C→B is 9 days old
+    expect(zones.map(line).sort()).toEqual(["FLEETT-F1 vibration B→C worse", "FLEETT-F4 vibration C→A better", "FLEETT-P2 vibration A→B worse"]);
+    const f1 = zones.find((c) => c.tag === "FLEETT-F1")!;
+    expect(f1).toMatchObject({ fromLabel: "Zone B", toLabel: "Zone C", name: "Motor FLEETT-F1", areaName: "Fans, north" });
+    expect(Date.now() - Date.parse(f1.at)).toBeGreaterThan(1.9 * DAY);
+    expect(Date.now() - Date.parse(f1.at)).toBeLessThan(2.1 * DAY);
+    const capture = await env.db("analyses").where({ id: f1.analysisId }).first("capture_id", "vibration_zone");
+    expect(capture).toEqual({ capture_id: f1.captureId, vibration_zone: "C" });
+  });
+
+  it("lists the changes worst first: worse before better, then the level reached, the step, the latest", () => {
+    expect((body.changes as Change[]).map(line)).toEqual([
+      "FLEETT-F1 rotor R2→R4 worse", // R4 reached
+      "FLEETT-P2 rotor R2→R3 worse", // R3 and zone C on one scale; P2's a day ago, F1's two
+      "FLEETT-F1 vibration B→C worse",
+      "FLEETT-P2 vibration A→B worse",
+      "FLEETT-F4 vibration C→A better", // a step of two before one
+      "FLEETT-F3 rotor R2→R1 better",
+    ]);
   });
 
   it("bins load % in 10 % steps and lists motors under 40 % and over 110 %", () => {
@@ -209,6 +238,7 @@ describe("GET /sites/:id/report", () => {
     expect(html).toContain("115\u202f%");
     expect(html).toContain("9.80\u202fmm/s");
     expect(html).toContain("FLEETT-F1");
+    expect(html).toContain("<b>FLEETT-F1</b> Zone B → Zone C (worse)"); // zone changes beside the grade changes
     expect(html).not.toContain("FLEETU-U1");
   });
 

@@ -8,6 +8,7 @@ import { seedMotorHistory, type SeededHistory } from "./motor-history.ts";
 const TAG = "GBT-CNV-C07";
 let h: Harness;
 let seeded: SeededHistory;
+let reviewedCapture: number;
 
 beforeAll(async () => {
   h = await startHarness();
@@ -35,6 +36,7 @@ describe("analyst review", () => {
     const row = h.page.getByRole("row").filter({ hasText: TAG }).first();
     await row.getByRole("link", { name: /Review spectrum/ }).click();
     await h.page.waitForURL(/\/captures\/\d+$/);
+    reviewedCapture = Number(new URL(h.page.url()).pathname.split("/").pop());
     const viewer = h.page.getByTestId("spectrum-current");
     await viewer.locator("canvas").first().waitFor();
     await viewer.getByText(/every bin shown|min\/max of/).waitFor();
@@ -84,6 +86,30 @@ describe("analyst review", () => {
     await form.getByRole("button", { name: "Record verdict" }).click();
     await h.page.getByText(/Re-measure asked/).first().waitFor();
     await h.screenshot("analyst-verdict-recorded");
+    expect(h.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
+  });
+
+  it("the queue's 'All, with verdicts' view shows each verdict with who and when; the waiting clock stops", async () => {
+    await h.page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Review", exact: true }).click();
+    await h.page.waitForURL(/\/review$/);
+    // waiting (the default): the answered capture has left the queue, and there is no verdict column
+    await h.page.getByRole("row").filter({ hasText: TAG }).first().waitFor();
+    await expect.poll(() => h.page.locator(`tr:has(a[href="/captures/${reviewedCapture}"])`).count()).toBe(0); // once the cached list is refetched
+    expect(await h.page.getByRole("columnheader", { name: "Verdict" }).count()).toBe(0);
+
+    await h.page.getByLabel("Show").selectOption("all");
+    await h.page.getByRole("columnheader", { name: "Verdict" }).waitFor();
+    const row = h.page.locator(`tr:has(a[href="/captures/${reviewedCapture}"])`);
+    await row.waitFor();
+    const verdict = row.locator('[data-verdict="remeasure"]');
+    expect(await verdict.innerText()).toMatch(/^Re-measure asked by Tobias Renn · \d{2} \w{3,4} \d{4}, \d{2}:\d{2}$/);
+    expect(await row.locator('[data-verdict="open"]').count()).toBe(0);
+    expect(await row.innerText()).toMatch(/every finding has a verdict/);
+    // a capture still waiting says so in the verdict column and keeps its clock
+    const waiting = h.page.getByRole("row").filter({ has: h.page.locator('[data-verdict="open"]') }).first();
+    expect(await waiting.innerText()).toMatch(/waiting for a verdict/);
+    expect(await waiting.innerText()).toMatch(/\d+ (min|h|d|wk)/);
+    await h.screenshot("analyst-review-all-verdicts");
     expect(h.consoleErrors.filter((e) => !/favicon/.test(e))).toEqual([]);
   });
 });

@@ -250,18 +250,30 @@ function WorstList({ motors }: { motors: FleetMotor[] }) {
 }
 
 function Changes({ changes }: { changes: FleetHealth["changes"] }) {
-  if (!changes.length) return <p className="text-ink-muted">No rotor grade changed this week.</p>;
+  if (!changes.length) return <p className="text-ink-muted">No rotor grade or vibration zone changed this week.</p>;
   return (
-    <ul className="flex flex-col divide-y divide-line">
+    <ul className="flex flex-col divide-y divide-line" aria-label="Rotor grade and vibration zone changes, worst first">
       {changes.map((c) => (
-        <li key={c.analysisId} className="flex flex-wrap items-center gap-2 py-1.5">
+        <li key={`${c.kind}-${c.analysisId}`} className="flex flex-wrap items-center gap-x-2 gap-y-1 py-1.5" data-change-kind={c.kind}>
           <span className={`w-14 text-caption font-semibold ${c.direction === "worse" ? "text-danger" : "text-ok"}`}>{c.direction === "worse" ? "▼ worse" : "▲ better"}</span>
           <Link to={`/motors/${c.assetId}`} className="num font-medium">{c.tag}</Link>
           <span className="text-caption text-ink-muted">{c.name}</span>
           <span className="ml-auto inline-flex items-center gap-1.5">
-            <GradeBadge grade={c.from} compact /> → <GradeBadge grade={c.to} compact />
+            <span className="w-16 text-right text-caption text-ink-muted">{c.kind === "vibration" ? "vibration" : "rotor"}</span>
+            {c.kind === "vibration" ? (
+              <>
+                <ZoneBadge zone={c.from} withWord /> → <ZoneBadge zone={c.to} withWord />
+              </>
+            ) : (
+              <>
+                <GradeBadge grade={c.from} compact /> → <GradeBadge grade={c.to} compact />
+              </>
+            )}
           </span>
-          <span className="w-24 text-right text-caption text-ink-muted">{formatDate(c.at)}</span>
+          <Link to={`/captures/${c.captureId}`} className="w-28 whitespace-nowrap text-right text-caption" title={`The capture of ${formatDateTime(c.at)}`}>
+            <span className="sr-only">Capture of </span>
+            {formatDate(c.at)} →
+          </Link>
         </li>
       ))}
     </ul>

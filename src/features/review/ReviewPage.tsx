@@ -1,5 +1,7 @@
 // Review (/review): captures whose analysis raised or changed a finding that waits for a verdict, worst first,
 // with the motor, the grade or zone, the load and how long it has waited. A row opens the capture's spectrum.
+// "All, with verdicts" adds each finding's verdict (in words, who and when); the waiting clock runs only while a
+// finding of the capture still has none (the server's raisedAt, server/reports/review-counts.ts).
 import { Link, useNavigate } from "react-router-dom";
 import { DataTable, pagedTableProps, useListParams, type Column } from "../../components/DataTable.tsx";
 import { EmptyState } from "../../components/EmptyState.tsx";
@@ -11,11 +13,12 @@ import { ZoneBadge } from "../../components/ZoneBadge.tsx";
 import { formatDateTime } from "../../lib/format.ts";
 import { useSites } from "../../lib/sites.ts";
 import { useReview, type ReviewItem } from "./api/get-review.ts";
-import { ageLabel } from "./lib.ts";
+import { ageLabel, verdictState } from "./lib.ts";
 
 export default function ReviewPage() {
   const list = useListParams({ pageSize: 25, filters: ["status", "siteId"] });
-  const review = useReview({ ...list.query, status: list.filters.status || "open" });
+  const status = list.filters.status || "open";
+  const review = useReview({ ...list.query, status });
   const sites = useSites();
   const navigate = useNavigate();
 
@@ -58,10 +61,38 @@ export default function ReviewPage() {
       ),
       hideBelow: "lg",
     },
+    ...(status === "all"
+      ? [
+          {
+            id: "verdict",
+            header: "Verdict",
+            cell: (r: ReviewItem) => (
+              <span className="flex flex-col gap-0.5 text-caption">
+                {r.findings.map((f) => (
+                  <VerdictLine key={f.id} finding={f} withLevel={r.findings.length > 1} />
+                ))}
+              </span>
+            ),
+          } satisfies Column<ReviewItem>,
+        ]
+      : []),
     { id: "load", header: "Load", numeric: true, cell: (r) => <Figure value={r.findings[0]?.loadPct} unit="%" estimate="slip method" /> },
     { id: "criticality", header: "Criticality", sortKey: "criticality", cell: (r) => <span className="text-ink-muted">{String(r.findings[0]?.criticality ?? "—")}</span>, hideBelow: "md" },
     { id: "taken", header: "Captured", sortKey: "takenAt", cell: (r) => <span className="text-caption">{formatDateTime(r.takenAt)}</span>, hideBelow: "md" },
-    { id: "age", header: "Waiting", sortKey: "raisedAt", numeric: true, cell: (r) => <span title={formatDateTime(r.raisedAt)}>{ageLabel(r.raisedAt)}</span> },
+    {
+      id: "age",
+      header: "Waiting",
+      sortKey: "raisedAt",
+      numeric: true,
+      cell: (r) =>
+        r.raisedAt ? (
+          <span title={`Waiting since ${formatDateTime(r.raisedAt)}`}>{ageLabel(r.raisedAt)}</span>
+        ) : (
+          <span className="text-ink-faint" title="Every finding of this capture has a verdict">
+            —<span className="sr-only">every finding has a verdict</span>
+          </span>
+        ),
+    },
     {
       id: "open",
       header: <span className="sr-only">Open</span>,
@@ -76,7 +107,7 @@ export default function ReviewPage() {
   return (
     <Page wide title="Review" description="Captures whose analysis raised or worsened a finding, worst first. Open one to check the spectrum and record a verdict.">
       <DataTable
-        caption="Captures waiting for a verdict"
+        caption={status === "all" ? "Captures with findings, with their verdicts" : "Captures waiting for a verdict"}
         {...pagedTableProps(list, review)}
         columns={columns}
         rowKey={(r) => r.captureId}
@@ -86,7 +117,7 @@ export default function ReviewPage() {
           <>
             <label className="flex flex-col gap-1 text-caption font-medium text-ink-muted">
               Show
-              <Select value={list.filters.status || "open"} onChange={(e) => list.setFilter("status", e.target.value === "open" ? "" : e.target.value)}>
+              <Select value={status} onChange={(e) => list.setFilter("status", e.target.value === "open" ? "" : e.target.value)}>
                 <option value="open">Waiting for a verdict</option>
                 <option value="all">All, with verdicts</option>
               </Select>
@@ -111,5 +142,24 @@ export default function ReviewPage() {
         }
       />
     </Page>
+  );
+}
+
+/** One finding's verdict in words with who and when, or that it still waits; its grade or zone first when the capture has more than one. */
+function VerdictLine({ finding: f, withLevel }: { finding: ReviewItem["findings"][number]; withLevel: boolean }) {
+  const v = verdictState(f);
+  return (
+    <span className="flex flex-wrap items-center gap-x-1.5" data-verdict={v.waiting ? "open" : v.verdict}>
+      {withLevel && (f.kind === "vibration" ? <ZoneBadge zone={f.level} /> : <GradeBadge grade={f.level} compact />)}
+      {v.waiting ? (
+        <span className="font-semibold text-caution">waiting for a verdict</span>
+      ) : (
+        <span>
+          <span className="font-semibold">{v.word}</span>
+          {v.by && <> by {v.by}</>}
+          {v.at && <span className="text-ink-muted"> · {formatDateTime(v.at)}</span>}
+        </span>
+      )}
+    </span>
   );
 }

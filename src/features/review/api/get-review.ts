@@ -14,7 +14,8 @@ export interface ReviewItem {
   captureStatus: string;
   /** Worst finding level on one scale: rotor R2..R5 → 2..5, zone C → 3, D → 4. */
   severity: number;
-  raisedAt: string;
+  /** When the capture's newest finding still waiting for a verdict was raised; null once every finding has one (status=all). */
+  raisedAt: string | null;
   findings: (Finding & { takenAt?: string | null })[];
 }
 
