@@ -38,7 +38,8 @@ function isUtf8(buf: Buffer): boolean {
 
 /** Multipart parser for one `file` part, with the size limit answered as 413 instead of multer's 500. */
 export function attachmentUpload(limitBytes = ATTACHMENT_LIMIT_BYTES): RequestHandler {
-  const parse = multer({ storage: multer.memoryStorage(), limits: { fileSize: limitBytes, files: 1, fields: 10 } }).single("file");
+  // Browsers send the file name as UTF-8 without saying so; multer's default (latin1) would turn "ü" into "Ã¼".
+  const parse = multer({ storage: multer.memoryStorage(), limits: { fileSize: limitBytes, files: 1, fields: 10 }, defParamCharset: "utf8" }).single("file");
   return (req, res, next) => {
     parse(req, res, (err: unknown) => {
       if (!err) return next();

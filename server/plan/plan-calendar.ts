@@ -1,6 +1,7 @@
 import type { AppContext } from "../context.ts";
 import { buildCalendar } from "./ics.ts";
 import { calendarDomain, icsInspection } from "./notify.ts";
+import { isRole } from "../permissions.ts";
 import { applyFilters, applySort, baseQuery, filterQuery, toInspection, type InspectionFilter, type InspectionRow } from "./store.ts";
 
 // The open plan (planned and in progress) as one VCALENDAR with METHOD:PUBLISH, one all-day VEVENT per inspection on
@@ -19,7 +20,13 @@ export async function planCalendar(
   userId: number,
   opts: { name?: string; refreshMinutes?: number } = {},
 ): Promise<string> {
-  const rows: InspectionRow[] = await applySort(applyFilters(baseQuery(ctx.db), { ...filter, open: true }, userId), "dueDate").limit(MAX_EVENTS);
-  const items = rows.map((row) => icsInspection(ctx, toInspection(row), row.assignee_email ? { name: row.assignee_name, email: row.assignee_email } : null));
+  const [rows, viewer]: [InspectionRow[], { role?: string } | undefined] = await Promise.all([
+    applySort(applyFilters(baseQuery(ctx.db), { ...filter, open: true }, userId), "dueDate").limit(MAX_EVENTS),
+    ctx.db("users").where({ id: userId }).first("role"),
+  ]);
+  // Each event's URL opens the inspection on a screen the calendar's owner may open (server/plan/links.ts).
+  const owner = viewer?.role;
+  const role = isRole(owner) ? owner : null;
+  const items = rows.map((row) => icsInspection(ctx, toInspection(row), row.assignee_email ? { name: row.assignee_name, email: row.assignee_email } : null, role));
   return buildCalendar(items, { domain: calendarDomain(ctx), method: "PUBLISH", name: opts.name ?? PLAN_CALENDAR_NAME, refreshMinutes: opts.refreshMinutes });
 }

@@ -29,6 +29,28 @@ const calendarQuery = filterQuery.omit({ sort: true, from: true, to: true }).ext
 const CALENDAR_DEFAULT_DAYS = 42; // six weeks: a month view with its leading and trailing days
 const addDays = (iso: string, n: number) => new Date(Date.parse(`${iso}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
 
+/** Attachment types a browser may show in the page rather than download. */
+const INLINE_TYPES = ["image/png", "image/jpeg"];
+
+/** Content-Disposition with the file name for old and new clients (RFC 6266: filename and filename*). */
+function contentDisposition(type: "inline" | "attachment", fileName: string): string {
+  const ascii = fileName.replace(/[^\x20-\x7e]/g, "_").replace(/["\\]/g, "_");
+  const encoded = encodeURIComponent(fileName).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
+  return `${type}; filename="${ascii}"; filename*=UTF-8''${encoded}`;
+}
+
+type AttachmentRow = { id: number; inspection_id: number; file_name: string; content_type: string; byte_size: string | number; capture_id: number | null; created_at: string };
+/** An attachment in the API's shape; `url` downloads it (photos open inline, `?download=1` forces a download). */
+const toAttachment = (a: AttachmentRow) => ({
+  id: a.id,
+  fileName: a.file_name,
+  contentType: a.content_type,
+  size: Number(a.byte_size),
+  captureId: a.capture_id,
+  createdAt: a.created_at,
+  url: `/api/inspections/${a.inspection_id}/attachments/${a.id}`,
+});
+
 function publish(ctx: AppContext, id: number) {
   const fn = ctx.services.publish as ((event: string, payload: unknown) => void) | undefined;
   try {
@@ -66,18 +88,24 @@ export function inspectionRoutes(ctx: AppContext) {
       db("inspection_events as e").leftJoin("users as u", "u.id", "e.by_user_id").where("e.inspection_id", id).orderBy("e.id").select("e.*", "u.name as by_name"),
       db("inspection_attachments").where({ inspection_id: id }).orderBy("id"),
     ]);
+    // A reassignment's history line names the people (details hold their ids; null is nobody).
+    const personIds = [...new Set(events.filter((e) => e.kind === "reassigned").flatMap((e) => [e.details?.from, e.details?.to]).filter((v): v is number => typeof v === "number"))];
+    const names = new Map<number, string>(personIds.length ? (await db("users").whereIn("id", personIds).select("id", "name")).map((u) => [u.id as number, u.name as string]) : []);
+    const nameOf = (v: unknown) => (typeof v === "number" ? (names.get(v) ?? null) : null);
     return {
       ...toInspection(row),
-      events: events.map((e) => ({ id: e.id, at: e.at, kind: e.kind, from: e.from_status, to: e.to_status, byId: e.by_user_id, byName: e.by_name ?? null, note: e.note, details: e.details })),
-      attachments: attachments.map((a) => ({
-        id: a.id,
-        fileName: a.file_name,
-        contentType: a.content_type,
-        size: Number(a.byte_size),
-        captureId: a.capture_id,
-        createdAt: a.created_at,
-        url: `/api/inspections/${id}/attachments/${a.id}`,
+      events: events.map((e) => ({
+        id: e.id,
+        at: e.at,
+        kind: e.kind,
+        from: e.from_status,
+        to: e.to_status,
+        byId: e.by_user_id,
+        byName: e.by_name ?? null,
+        note: e.note,
+        details: e.kind === "reassigned" && e.details ? { ...e.details, fromName: nameOf(e.details.from), toName: nameOf(e.details.to) } : e.details,
       })),
+      attachments: attachments.map(toAttachment),
     };
   };
 
@@ -88,7 +116,11 @@ export function inspectionRoutes(ctx: AppContext) {
     const base = applyFilters(baseQuery(db), q, req.user!.id);
     const [{ count }] = await applyFilters(db("inspections as i").join("assets as a", "a.id", "i.asset_id").join("areas as ar", "ar.id", "a.area_id").join("sites as s", "s.id", "ar.site_id"), q, req.user!.id).count({ count: "*" });
     const rows = await applySort(base, q.sort).limit(q.pageSize).offset((q.page - 1) * q.pageSize);
-    res.json({ items: rows.map(toInspection), total: Number(count), page: q.page, pageSize: q.pageSize });
+    // Each item carries its files (photos and captures kept with it), so a list of finished work can show them.
+    const ids = rows.map((x: InspectionRow) => x.id as number);
+    const files = ids.length ? await db("inspection_attachments").whereIn("inspection_id", ids).orderBy("id") : [];
+    const items = rows.map((x: InspectionRow) => ({ ...toInspection(x), attachments: files.filter((a) => a.inspection_id === x.id).map(toAttachment) }));
+    res.json({ items, total: Number(count), page: q.page, pageSize: q.pageSize });
   });
 
   // Calendar view: inspections by due date over a range, grouped per day (cancelled ones left out unless asked for).
@@ -297,7 +329,7 @@ export function inspectionRoutes(ctx: AppContext) {
       if (finished && edits.length) throw conflict(`The inspection is ${before.status === "done" ? "done" : "cancelled"}; it can no longer be changed.`);
 
       let rescheduled = false;
-      let reassigned: { from: number | null; to: { id: number; name: string; email: string } } | null = null;
+      let reassigned: { from: number | null; to: { id: number; name: string; email: string; role: string } | null } | null = null;
       if (body.dueDate !== undefined && body.dueDate !== dueBefore) {
         // Moving it into the past is refused as on scheduling; an unchanged (overdue) date is fine.
         if (isPastDueDate(body.dueDate)) throw badRequest("Invalid inspection", { dueDate: PAST_DUE_DATE });
@@ -306,10 +338,11 @@ export function inspectionRoutes(ctx: AppContext) {
         event({ kind: "rescheduled", note: body.note ?? null, details: JSON.stringify({ from: dueBefore, to: body.dueDate }) });
       }
       if (body.assigneeId !== undefined && body.assigneeId !== before.assignee_id) {
-        const person = await assignee(trx, body.assigneeId);
-        changes.assignee_id = person.id;
+        // null: nobody holds it until a planner gives it to someone.
+        const person = body.assigneeId === null ? null : await assignee(trx, body.assigneeId);
+        changes.assignee_id = person?.id ?? null;
         reassigned = { from: before.assignee_id, to: person };
-        event({ kind: "reassigned", note: body.note ?? null, details: JSON.stringify({ from: before.assignee_id, to: person.id }) });
+        event({ kind: "reassigned", note: body.note ?? null, details: JSON.stringify({ from: before.assignee_id, to: person?.id ?? null }) });
       }
       const other: Record<string, unknown> = {};
       if (body.title !== undefined && body.title !== before.title) other.title = body.title;
@@ -346,7 +379,7 @@ export function inspectionRoutes(ctx: AppContext) {
 
       const actor = { actor: user, subjectType: "inspection", subjectId: id, ip: req.ip };
       if (rescheduled) await audit(trx, { ...actor, action: "inspection.rescheduled", details: { from: dueBefore, to: body.dueDate, note: body.note ?? null } });
-      if (reassigned) await audit(trx, { ...actor, action: "inspection.reassigned", details: { from: reassigned.from, to: reassigned.to.id } });
+      if (reassigned) await audit(trx, { ...actor, action: "inspection.reassigned", details: { from: reassigned.from, to: reassigned.to?.id ?? null, note: body.note ?? null } });
       if (Object.keys(other).length) await audit(trx, { ...actor, action: "inspection.changed", details: { fields: Object.keys(other) } });
       if (statusTo)
         await audit(trx, { ...actor, action: "inspection.status", details: { from: before.status, to: statusTo, note: body.note ?? null, outcome: body.outcome ?? null } });
@@ -356,11 +389,11 @@ export function inspectionRoutes(ctx: AppContext) {
     const out = await detail(id);
     // Tell the people whose calendar this touches; each gets at most one mail for one change.
     const mails: Promise<boolean>[] = [];
-    const holder = out.assigneeId ? await db("users").where({ id: out.assigneeId }).first("id", "name", "email") : null;
+    const holder = out.assigneeId ? await db("users").where({ id: out.assigneeId }).first("id", "name", "email", "role") : null;
     if (result.reassigned) {
-      mails.push(mailInspection(ctx, "assigned", out, result.reassigned.to, user.name));
+      if (result.reassigned.to) mails.push(mailInspection(ctx, "assigned", out, result.reassigned.to, user.name));
       if (result.reassigned.from) {
-        const old = await db("users").where({ id: result.reassigned.from }).first("id", "name", "email");
+        const old = await db("users").where({ id: result.reassigned.from }).first("id", "name", "email", "role");
         if (old) mails.push(mailInspection(ctx, "unassigned", out, old, user.name));
       }
     } else if (result.statusTo === "cancelled" && holder && holder.id !== user.id) {
@@ -412,15 +445,7 @@ export function inspectionRoutes(ctx: AppContext) {
         ip: req.ip,
       });
       publish(ctx, id);
-      res.status(201).json({
-        id: att.id,
-        fileName: att.file_name,
-        contentType: att.content_type,
-        size: Number(att.byte_size),
-        captureId: att.capture_id,
-        createdAt: att.created_at,
-        url: `/api/inspections/${id}/attachments/${att.id}`,
-      });
+      res.status(201).json(toAttachment(att));
     } catch (err) {
       await store.delete(key).catch(() => {});
       throw err;
@@ -433,7 +458,14 @@ export function inspectionRoutes(ctx: AppContext) {
     const att = await db("inspection_attachments").where({ id: attId, inspection_id: id }).first();
     if (!att) throw notFound("No such attachment.");
     const bytes = await store.get(att.blob_key);
-    res.type(att.content_type).attachment(att.file_name).send(bytes);
+    // A photo may be shown in the page (thumbnail, a new tab); everything else, and `?download=1`, is a download. The
+    // type was decided from the bytes on upload, so an inline image is an image; nosniff keeps the browser to it.
+    const inline = INLINE_TYPES.includes(att.content_type) && req.query.download !== "1";
+    res.set("X-Content-Type-Options", "nosniff");
+    res.set("Cache-Control", "private, max-age=3600");
+    res.type(att.content_type);
+    res.set("Content-Disposition", contentDisposition(inline ? "inline" : "attachment", att.file_name));
+    res.send(bytes);
   });
 
   return r.router;

@@ -1,10 +1,10 @@
 // Inspection rules shared by Plan and My work: statuses, allowed moves, priorities and their suggested due dates.
 import { computePriority } from "../../server/plan/priority.ts";
-import type { z } from "zod";
+import { z } from "zod";
 import type { InspectionStatus, Priority } from "./contracts.ts";
 import { parseGrade } from "./grades.ts";
-import { numberInput } from "./forms.ts";
-import { completeBody, dueDate, instructions, PAST_DUE_DATE, priority, scheduleBody, type OUTCOMES as OUTCOME_VALUES } from "../shared/schemas/inspections.ts";
+import { inputNumber as numberInputValue, numberInput } from "./forms.ts";
+import { completeBody, dueDate, inspectionPatchBody, instructions, PAST_DUE_DATE, priority, scheduleBody, type OUTCOMES as OUTCOME_VALUES } from "../shared/schemas/inspections.ts";
 
 export const STATUS_LABEL: Record<InspectionStatus, string> = {
   planned: "Planned",
@@ -80,13 +80,50 @@ export const scheduleSchema = scheduleBody.extend({
 });
 export type ScheduleInput = z.output<typeof scheduleSchema>;
 
+/** The outcomes of a finished inspection (the server's list), with the words the screens show for them. */
 export const OUTCOMES: { value: (typeof OUTCOME_VALUES)[number]; label: string }[] = [
   { value: "no_fault_found", label: "No fault found" },
   { value: "fault_confirmed", label: "Fault confirmed" },
   { value: "repaired", label: "Repaired on site" },
-  { value: "remeasure", label: "Measure again" },
+  { value: "remeasure", label: "Re-measure" },
   { value: "other", label: "Other (see note)" },
 ];
+
+/**
+ * The inspection a page is asked to open (`/plan?inspection=<id>`, `/my-work?inspection=<id>`: the links in mail and
+ * calendar entries, server/plan/links.ts), or null when the parameter is missing or not an id.
+ */
+export function inspectionParam(sp: URLSearchParams): number | null {
+  const v = sp.get("inspection");
+  return v && /^[1-9]\d{0,14}$/.test(v) ? Number(v) : null;
+}
+
+/** An outcome's label for a screen ("remeasure" → "Re-measure"); an unknown value is shown as it is, none as "". */
+export function outcomeLabel(value: string | null | undefined): string {
+  if (!value) return "";
+  return OUTCOMES.find((o) => o.value === value)?.label ?? value;
+}
+
+/** The due date a planner moves an inspection to: the schedule form's rule (the server's, and not before today here). */
+const movedDueDate = dueDate.refine((d) => d >= todayIso(), PAST_DUE_DATE);
+
+/**
+ * The planner's reschedule / reassign form on an open inspection: the server's PATCH /inspections/:id fields with the
+ * inputs' strings. A due date that moves follows the schedule rule (not in the past); the date it already has may
+ * stand even when overdue, as on the server. The technician select's "" is nobody (null: off everyone's list).
+ */
+export function rescheduleSchema(currentDueDate: string) {
+  return z.object({
+    dueDate: z.string().superRefine((d, ctx) => {
+      if (d === currentDueDate) return;
+      const r = movedDueDate.safeParse(d);
+      if (!r.success) ctx.addIssue({ code: "custom", message: r.error.issues[0]?.message ?? PAST_DUE_DATE });
+    }),
+    assigneeId: z.preprocess((v) => (v === "" ? null : numberInputValue(v)), inspectionPatchBody.shape.assigneeId.unwrap()),
+    priority: inspectionPatchBody.shape.priority.unwrap(),
+  });
+}
+export type RescheduleInput = z.output<ReturnType<typeof rescheduleSchema>>;
 
 /** The technician's completion form (PATCH /inspections/:id with status done): what the server requires for done. */
 export const completeSchema = completeBody;

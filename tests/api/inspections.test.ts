@@ -12,6 +12,8 @@ import { canTransition, STATUSES } from "../../server/plan/workflow.ts";
 import { csvField, toCsv } from "../../server/plan/csv.ts";
 import { buildCalendar, escapeText, foldLine } from "../../server/plan/ics.ts";
 import { sniffAttachment } from "../../server/plan/attachments.ts";
+import { permissionsOf } from "../../server/permissions.ts";
+import { visibleNav } from "../../src/app/nav.ts";
 
 // Inspection plan: priority rule, workflow, who may do what, assignment mail with calendar invitations, exports.
 // Fixture rows carry the tag prefix "INSPT-" so they do not meet other test files' rows in the shared database.
@@ -45,6 +47,22 @@ function parseCsv(text: string): string[][] {
   if (field || row.length) row.push(field), rows.push(row);
   return rows;
 }
+
+/** The one app link in a mail's text. */
+const linkIn = (text: string) => {
+  const m = text.match(/^https?:\/\/\S+$/m);
+  expect(m, "a link in the mail").toBeTruthy();
+  return m![0];
+};
+/** Whether a role's navigation (src/app/nav.ts, by the permission module) has the screen a link opens. */
+const roleOpens = (role: Role, url: string) => {
+  const { pathname } = new URL(url);
+  return visibleNav(permissionsOf(role)).some((n) => pathname === n.to || pathname.startsWith(`${n.to}/`));
+};
+const appPath = (url: string) => {
+  const u = new URL(url);
+  return u.pathname + u.search;
+};
 
 const isoDay = (offsetDays: number) => new Date(Date.now() + offsetDays * 86_400_000).toISOString().slice(0, 10);
 const attachmentsOf = (mail: { attachments: { filename: string; contentType: string; content: string }[] }) => mail.attachments ?? [];
@@ -377,6 +395,86 @@ describe("assignment and reschedule mail", () => {
     expect(contentLines(icsOf(withdrawn))).toContain("METHOD:CANCEL");
     expect(await env.db("audit_log").where({ action: "inspection.reassigned", subject_id: String(i.id) }).first()).toBeTruthy();
   });
+
+  it("the mail's link and its calendar entry's URL open the inspection on a screen the recipient's role may open", async () => {
+    const i = await plan({ title: "INSPT link target" });
+    // technician: My work (Plan is not theirs: "Not available to your role")
+    const invite = await waitForMail(env.db, demoUser("technician").email, "Inspection assigned: INSPT-M1 – INSPT link target%");
+    const link = linkIn(invite.text_body);
+    expect(appPath(link)).toBe(`/my-work?inspection=${i.id}`);
+    expect(roleOpens("technician", link)).toBe(true);
+    expect(roleOpens("technician", link.replace("/my-work", "/plan"))).toBe(false); // the old link was a dead end
+    const [ev] = vevents(icsOf(invite));
+    expect(ev.URL).toBe(link);
+    expect(unescapeText(ev.DESCRIPTION)).toContain(link);
+
+    // given to a planner: Plan, which opens the dialog from ?inspection=; the technician's withdrawal still opens on My work
+    const moved = await agents.planner.patch(`/api/inspections/${i.id}`).send({ assigneeId: ids.planner });
+    expect(moved.status).toBe(200);
+    const plannerMail = await waitForMail(env.db, demoUser("planner").email, "Inspection assigned: INSPT-M1 – INSPT link target%");
+    expect(appPath(linkIn(plannerMail.text_body))).toBe(`/plan?inspection=${i.id}`);
+    expect(roleOpens("planner", linkIn(plannerMail.text_body))).toBe(true);
+    expect(vevents(icsOf(plannerMail))[0].URL).toBe(linkIn(plannerMail.text_body));
+    const withdrawn = await waitForMail(env.db, demoUser("technician").email, "Inspection reassigned: INSPT-M1 – INSPT link target%");
+    expect(appPath(linkIn(withdrawn.text_body))).toBe(`/my-work?inspection=${i.id}`);
+    expect(vevents(icsOf(withdrawn))[0].URL).toBe(linkIn(withdrawn.text_body));
+
+    // the export's events link for whoever downloads it: a manager has neither Plan nor My work, so the motor's page
+    const urlFor = async (role: Role) => {
+      const res = await agents[role].get(`/api/inspections.ics?siteId=${ids.site}`).buffer(true).parse((r, cb) => {
+        let t = "";
+        r.on("data", (c: Buffer) => (t += c.toString("utf8")));
+        r.on("end", () => cb(null, t));
+      });
+      expect(res.status).toBe(200);
+      return vevents(res.body as string).find((e) => e.UID === `inspection-${i.id}@barhound.local`)!.URL;
+    };
+    for (const [role, path] of [["planner", `/plan?inspection=${i.id}`], ["manager", `/motors/${ids.medium}`], ["admin", `/motors/${ids.medium}`]] as const) {
+      const url = await urlFor(role);
+      expect(appPath(url), role).toBe(path);
+      expect(roleOpens(role, url), role).toBe(true);
+    }
+    // and a technician's subscribed calendar (own inspections) links to My work
+    await agents.planner.patch(`/api/inspections/${i.id}`).send({ assigneeId: ids.tech });
+    const feed = await agents.technician.post("/api/calendar-feed");
+    expect(feed.status).toBe(201);
+    const ics = await request(env.app).get(new URL(feed.body.url).pathname);
+    expect(ics.status).toBe(200);
+    const feedUrl = vevents(ics.text).find((e) => e.UID === `inspection-${i.id}@barhound.local`)!.URL;
+    expect(appPath(feedUrl)).toBe(`/my-work?inspection=${i.id}`);
+    await agents.technician.delete("/api/calendar-feed");
+  });
+
+  it("a planner unassigns (Nobody): the holder's event is withdrawn, it is audited and the history names who lost it", async () => {
+    const i = await plan({ title: "INSPT unassign" });
+    // only a planner; and 0 is still not a person
+    expect((await agents.technician.patch(`/api/inspections/${i.id}`).send({ assigneeId: null })).status).toBe(403);
+    expect((await agents.planner.patch(`/api/inspections/${i.id}`).send({ assigneeId: 0 })).status).toBe(400);
+
+    const res = await agents.planner.patch(`/api/inspections/${i.id}`).send({ assigneeId: null, note: "Waiting for the shutdown window" });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body).toMatchObject({ assigneeId: null, assigneeName: null, mailed: true });
+    expect(await env.db("inspections").where({ id: i.id }).first("assignee_id")).toEqual({ assignee_id: null });
+    const audit = await env.db("audit_log").where({ action: "inspection.reassigned", subject_id: String(i.id) }).first();
+    expect(audit.details).toEqual({ from: ids.tech, to: null, note: "Waiting for the shutdown window" });
+    const withdrawn = await waitForMail(env.db, demoUser("technician").email, "Inspection unassigned: INSPT-M1 – INSPT unassign%");
+    expect(withdrawn.text_body).toContain("nobody holds it for now");
+    expect(contentLines(icsOf(withdrawn))).toContain("METHOD:CANCEL");
+
+    const detail = await agents.planner.get(`/api/inspections/${i.id}`);
+    const ev = detail.body.events.find((e: { kind: string }) => e.kind === "reassigned");
+    expect(ev).toMatchObject({ note: "Waiting for the shutdown window", details: { from: ids.tech, to: null, fromName: demoUser("technician").name, toName: null } });
+    // off the technician's list, and no longer theirs to move
+    const mine = await agents.technician.get(`/api/inspections?mine=1&siteId=${ids.site}&pageSize=200`);
+    expect(mine.body.items.map((x: { id: number }) => x.id)).not.toContain(i.id);
+    expect((await agents.technician.patch(`/api/inspections/${i.id}`).send({ status: "in_progress" })).status).toBe(403);
+    // nobody again is no change; giving it to someone works from nobody
+    expect((await agents.planner.patch(`/api/inspections/${i.id}`).send({ assigneeId: null })).status).toBe(400);
+    const back = await agents.planner.patch(`/api/inspections/${i.id}`).send({ assigneeId: ids.otherTech });
+    expect(back.body).toMatchObject({ assigneeId: ids.otherTech, assigneeName: "Arvid Lund" });
+    const again = (await agents.planner.get(`/api/inspections/${i.id}`)).body.events.filter((e: { kind: string }) => e.kind === "reassigned");
+    expect(again[1].details).toMatchObject({ from: null, to: ids.otherTech, fromName: null, toName: "Arvid Lund" });
+  });
 });
 
 describe("list, filters and calendar", () => {
@@ -571,6 +669,40 @@ describe("attachments", () => {
     expect(Buffer.compare(dl.body as Buffer, PNG)).toBe(0);
     expect(await env.db("audit_log").where({ action: "inspection.attachment-added", subject_id: String(i.id) }).count({ n: "*" })).toEqual([{ n: "2" }]);
   });
+
+  it("GET /inspections/:id/attachments/:attachmentId: a photo inline, a capture file as a download, for anyone who may read the inspection", async () => {
+    const i = await plan({ title: "INSPT download" });
+    const other = await plan({ title: "INSPT download other" });
+    const photo = (await agents.technician.post(`/api/inspections/${i.id}/attachments`).attach("file", PNG, "rotor bars ü.png")).body;
+    const csv = (await agents.technician.post(`/api/inspections/${i.id}/attachments`).attach("file", Buffer.from("t,ia\n0,1\n"), "phase-a.csv")).body;
+    expect(photo.url).toBe(`/api/inspections/${i.id}/attachments/${photo.id}`);
+
+    for (const role of ROLES) {
+      const res = await agents[role].get(photo.url);
+      expect(res.status, role).toBe(200); // fleet.read: every role reads inspections
+    }
+    const shown = await agents.analyst.get(photo.url);
+    expect(shown.headers["content-type"]).toBe("image/png");
+    expect(shown.headers["content-disposition"]).toMatch(/^inline; filename="rotor bars _.png"; filename\*=UTF-8''rotor%20bars%20%C3%BC\.png$/);
+    expect(shown.headers["x-content-type-options"]).toBe("nosniff");
+    expect((await agents.analyst.get(`${photo.url}?download=1`)).headers["content-disposition"]).toMatch(/^attachment;/);
+    const file = await agents.manager.get(csv.url);
+    expect(file.status).toBe(200);
+    expect(file.headers["content-type"]).toMatch(/^text\/csv/);
+    expect(file.headers["content-disposition"]).toMatch(/^attachment; filename="phase-a.csv"/);
+    expect(file.text).toBe("t,ia\n0,1\n");
+
+    // only under its own inspection; unknown ids are 404; no session is 401
+    expect((await agents.manager.get(`/api/inspections/${other.id}/attachments/${photo.id}`)).status).toBe(404);
+    expect((await agents.manager.get(`/api/inspections/${i.id}/attachments/99999999`)).status).toBe(404);
+    expect((await request(env.app).get(photo.url)).status).toBe(401);
+
+    // the list carries each inspection's files, so finished work can show them
+    const list = await agents.technician.get(`/api/inspections?mine=1&q=INSPT download&pageSize=200`);
+    const row = list.body.items.find((x: { id: number }) => x.id === i.id);
+    expect(row.attachments.map((a: { fileName: string; size: number }) => [a.fileName, a.size])).toEqual([["rotor bars ü.png", PNG.length], ["phase-a.csv", 9]]);
+    expect(list.body.items.find((x: { id: number }) => x.id === other.id).attachments).toEqual([]);
+  });
 });
 
 describe("role checks on every inspection route", () => {
@@ -583,7 +715,7 @@ describe("role checks on every inspection route", () => {
 
   it("registers the contract's routes", () => {
     const names = mine().map((r) => `${r.method} ${r.path}`);
-    for (const n of ["get /api/inspections", "post /api/inspections", "patch /api/inspections/:id", "post /api/inspections/:id/attachments", "get /api/inspections.csv", "get /api/inspections.ics"])
+    for (const n of ["get /api/inspections", "post /api/inspections", "patch /api/inspections/:id", "post /api/inspections/:id/attachments", "get /api/inspections/:id/attachments/:attachmentId", "get /api/inspections.csv", "get /api/inspections.ics"])
       expect(names).toContain(n);
   });
 

@@ -14,7 +14,7 @@ import { apiUrl } from "../../lib/api.ts";
 import type { Finding, Inspection, InspectionCandidate } from "../../lib/contracts.ts";
 import { formatDate, formatDateTime } from "../../lib/format.ts";
 import { parseGrade } from "../../lib/grades.ts";
-import { isOverdue, STATUS_LABEL } from "../../lib/inspections.ts";
+import { inspectionParam, isOverdue, outcomeLabel, STATUS_LABEL } from "../../lib/inspections.ts";
 import { useSession } from "../../lib/session.ts";
 import { candidatesQueryOptions, inspectionsQueryOptions, techniciansQueryOptions } from "./api/inspections.ts";
 import { ScheduleDialog } from "./ScheduleDialog.tsx";
@@ -24,9 +24,21 @@ import { formatMonthParam, parseMonth } from "./calendar.ts";
 
 export default function PlanPage() {
   const [scheduling, setScheduling] = useState<{ finding: Finding | null } | null>(null);
-  const [opened, setOpened] = useState<Inspection | null>(null);
+  // The row clicked, shown at once while the dialog loads the detail.
+  const [seed, setSeed] = useState<Inspection | null>(null);
   const list = useListParams({ pageSize: 25, sort: "dueDate", filters: ["status", "assigneeId"] });
   const [sp, setSp] = useSearchParams();
+  // `?inspection=<id>` (a row, the month view, or the link in a mail or calendar entry) opens that inspection's dialog.
+  const openedId = inspectionParam(sp);
+  const setOpened = (i: Inspection | null) => {
+    setSeed(i);
+    setSp((prev) => {
+      const n = new URLSearchParams(prev);
+      if (i) n.set("inspection", String(i.id));
+      else n.delete("inspection");
+      return n;
+    }, { replace: true });
+  };
   const view = sp.get("view") === "month" ? "month" : "list";
   const { year, month } = parseMonth(sp.get("month"));
   const technicians = useQuery(techniciansQueryOptions());
@@ -112,7 +124,7 @@ export default function PlanPage() {
       </div>
 
       <ScheduleDialog open={!!scheduling} finding={scheduling?.finding} onClose={() => setScheduling(null)} />
-      <InspectionDialog inspection={opened} onClose={() => setOpened(null)} />
+      <InspectionDialog inspectionId={openedId} initial={seed} onClose={() => setOpened(null)} />
     </Page>
   );
 }
@@ -148,15 +160,24 @@ function NeedsAction({ onSchedule }: { onSchedule: (f: Finding) => void }) {
   const q = useQuery(candidatesQueryOptions());
   const pageSize = 10;
   const rows = q.data?.slice((page - 1) * pageSize, page * pageSize);
+  const level = (c: InspectionCandidate) => (parseGrade(c.level) ? <GradeBadge compact grade={c.level} /> : <ZoneBadge zone={c.level} withWord />);
+  const schedule = (c: InspectionCandidate) => <Button size="sm" variant="primary" onClick={() => onSchedule(candidateFinding(c))}>Schedule</Button>;
+  // On a phone (below sm) the row stacks into its Finding cell: motor, condition, suggestion and Schedule with it,
+  // so nothing needs a sideways scroll to be reached.
   const columns: Column<InspectionCandidate>[] = [
-    { id: "motor", header: "Motor", cell: (c) => (<span><Link to={`/motors/${c.assetId}`} className="num font-medium">{c.assetTag}</Link> <span className="text-ink-muted">{c.assetName}</span></span>) },
+    { id: "motor", header: "Motor", cell: (c) => (<span><Link to={`/motors/${c.assetId}`} className="num font-medium">{c.assetTag}</Link> <span className="text-ink-muted">{c.assetName}</span></span>), hideBelow: "sm" },
     { id: "site", header: "Site", cell: (c) => c.siteName, hideBelow: "md" },
-    { id: "level", header: "Now", cell: (c) => (parseGrade(c.level) ? <GradeBadge compact grade={c.level} /> : <ZoneBadge zone={c.level} withWord />) },
+    { id: "level", header: "Now", cell: level, hideBelow: "sm" },
     {
       id: "summary",
       header: "Finding",
       cell: (c) => (
-        <div>
+        <div className="flex flex-col gap-1 sm:block">
+          <p className="flex flex-wrap items-center gap-x-2 gap-y-1 sm:hidden">
+            <Link to={`/motors/${c.assetId}`} className="num font-medium">{c.assetTag}</Link>
+            <span className="text-ink-muted">{c.assetName}</span>
+            {level(c)}
+          </p>
           <span className="line-clamp-2">{c.summary}</span>
           {c.earlierFindings.length > 0 && (
             <p className="text-caption text-ink-muted">
@@ -169,13 +190,19 @@ function NeedsAction({ onSchedule }: { onSchedule: (f: Finding) => void }) {
               Already open on this motor: {i.title} ({i.status === "in_progress" ? "in progress" : i.status}, due <span className="num">{formatDate(i.dueDate)}</span>)
             </p>
           ))}
+          <div className="flex flex-wrap items-center justify-between gap-2 sm:hidden">
+            <span className="text-caption text-ink-muted">
+              Suggested: <PriorityTag priority={c.suggestedPriority} />
+            </span>
+            {schedule(c)}
+          </div>
         </div>
       ),
     },
     { id: "state", header: "Verdict", cell: (c) => <span className="text-caption text-ink-muted">{VERDICT_STATE[c.status] ?? c.status}</span>, hideBelow: "lg" },
     { id: "raised", header: "Raised", cell: (c) => <span className="num text-caption text-ink-muted">{formatDateTime(c.createdAt)}</span>, hideBelow: "md" },
-    { id: "suggest", header: "Suggested", cell: (c) => <PriorityTag priority={c.suggestedPriority} /> },
-    { id: "act", header: <span className="sr-only">Action</span>, cell: (c) => <Button size="sm" variant="primary" onClick={() => onSchedule(candidateFinding(c))}>Schedule</Button> },
+    { id: "suggest", header: "Suggested", cell: (c) => <PriorityTag priority={c.suggestedPriority} />, hideBelow: "sm" },
+    { id: "act", header: <span className="sr-only">Action</span>, cell: schedule, hideBelow: "sm" },
   ];
   return (
     <Section title="Needs action">
@@ -200,11 +227,34 @@ function InspectionList({ list, onOpen }: { list: ReturnType<typeof useListParam
   const q = useQuery(inspectionsQueryOptions(list.query));
   const columns: Column<Inspection>[] = [
     { id: "due", header: "Due", sortKey: "dueDate", cell: (i) => <span className={`num ${isOverdue(i) ? "font-semibold text-danger" : ""}`}>{formatDate(i.dueDate)}{isOverdue(i) && <span className="ml-1 font-sans text-caption">overdue</span>}</span> },
-    { id: "motor", header: "Motor", sortKey: "assetTag", cell: (i) => <span className="num font-medium">{i.assetTag ?? `#${i.assetId}`}</span> },
-    { id: "title", header: "Inspection", sortKey: "title", cell: (i) => i.title },
+    { id: "motor", header: "Motor", sortKey: "assetTag", cell: (i) => <span className="num font-medium">{i.assetTag ?? `#${i.assetId}`}</span>, hideBelow: "sm" },
+    {
+      id: "title",
+      header: "Inspection",
+      sortKey: "title",
+      cell: (i) => (
+        <span className="flex flex-col gap-0.5">
+          {/* on a phone the motor and priority come with the title (their columns are hidden there) */}
+          <span className="num text-caption font-medium sm:hidden">{i.assetTag ?? `#${i.assetId}`}</span>
+          <span>{i.title}</span>
+          <span className="sm:hidden"><PriorityTag priority={String(i.priority)} /></span>
+        </span>
+      ),
+    },
     { id: "assignee", header: "Technician", sortKey: "assigneeName", cell: (i) => i.assigneeName ?? <span className="text-ink-faint">Nobody</span>, hideBelow: "md" },
-    { id: "priority", header: "Priority", sortKey: "priority", cell: (i) => <PriorityTag priority={String(i.priority)} /> },
-    { id: "status", header: "Status", sortKey: "status", cell: (i) => <InspectionStatusPill status={i.status} /> },
+    { id: "priority", header: "Priority", sortKey: "priority", cell: (i) => <PriorityTag priority={String(i.priority)} />, hideBelow: "sm" },
+    {
+      id: "status",
+      header: "Status",
+      sortKey: "status",
+      cell: (i) => (
+        <span className="flex flex-col items-start gap-0.5">
+          <InspectionStatusPill status={i.status} />
+          {i.outcome && <span className="text-caption text-ink-muted">{outcomeLabel(i.outcome)}</span>}
+          {i.attachments?.length ? <span className="text-caption text-ink-muted">{i.attachments.length === 1 ? "1 file" : `${i.attachments.length} files`}</span> : null}
+        </span>
+      ),
+    },
   ];
   return (
     <DataTable

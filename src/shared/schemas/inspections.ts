@@ -50,13 +50,14 @@ export type ScheduleBody = z.output<typeof scheduleBody>;
 
 /**
  * PATCH /inspections/:id. The due date is checked against the past only when it moves (the route does that),
- * so an overdue inspection can still be reassigned with its date unchanged.
+ * so an overdue inspection can still be reassigned with its date unchanged. `assigneeId: null` takes the inspection
+ * off its holder's list (nobody holds it until a planner gives it to someone).
  */
 export const inspectionPatchBody = z
   .object({
     title: title.optional(),
     dueDate: isoDate.optional(),
-    assigneeId: id("Pick a technician.").optional(),
+    assigneeId: id("Pick a technician.").nullable().optional(),
     priority: priority.optional(),
     instructions: instructions.nullable().optional(),
     status: z.enum(INSPECTION_STATUSES, { message: `Status must be one of ${INSPECTION_STATUSES.join(", ")}.` }).optional(),

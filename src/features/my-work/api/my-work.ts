@@ -5,6 +5,8 @@ import { rootKeys } from "../../../lib/query.ts";
 
 export const myWorkKeys = {
   inspections: (status: string) => [...rootKeys.inspections, "list", { mine: 1, status }] as const,
+  /** The same key as Plan's detail query: one cache entry per inspection. */
+  inspection: (id: number) => [...rootKeys.inspections, "detail", id] as const,
   captures: () => [...rootKeys.captures, "list", { mine: 1, pageSize: 10, sort: "-createdAt" }] as const,
 };
 
@@ -15,6 +17,13 @@ export const myInspectionsQueryOptions = (status: "open" | "done") =>
       const r = await apiGet<Paged<Inspection>>("/inspections", { mine: 1, pageSize: 100, sort: status === "open" ? "dueDate" : "-updatedAt", status: status === "done" ? "done" : "planned,in_progress" }, signal);
       return status === "open" ? r.items.filter((i) => i.status === "planned" || i.status === "in_progress") : r.items.slice(0, 10);
     },
+  });
+
+/** One inspection by id (a link from mail or a calendar entry): also one no longer on the list, to say what became of it. */
+export const myInspectionQueryOptions = (id: number) =>
+  queryOptions({
+    queryKey: myWorkKeys.inspection(id),
+    queryFn: ({ signal }) => apiGet<Inspection>(`/inspections/${id}`, undefined, signal),
   });
 
 export const myCapturesQueryOptions = () =>
