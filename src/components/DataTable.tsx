@@ -56,7 +56,7 @@ export function DataTable<T>(props: DataTableProps<T>) {
   return (
     <div className="overflow-hidden rounded-md border border-line bg-surface shadow-card">
       {toolbar && <div className="flex flex-wrap items-end gap-3 border-b border-line bg-surface px-3 py-2.5">{toolbar}</div>}
-      <div className="overflow-x-auto">
+      <div className="relative overflow-x-auto">
         <table className="w-full border-collapse text-body">
           {caption && <caption className="sr-only">{caption}</caption>}
           <thead>
