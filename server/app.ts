@@ -14,7 +14,7 @@ import { authRoutes } from "./routes/auth.ts";
 import { userRoutes } from "./routes/users.ts";
 import { outboxRoutes } from "./routes/outbox.ts";
 import { auditRoutes } from "./routes/audit.ts";
-import { motorModelRouter } from "./routes/motor-model.ts";
+import { assetMotorModelRoutes, motorModelRouter } from "./routes/motor-model.ts";
 import { gatewayRoutes } from "./routes/gateways.ts";
 import { inspectionRoutes } from "./routes/inspections.ts";
 import { fleetRoutes } from "./routes/fleet.ts";
@@ -27,7 +27,7 @@ import { calendarFeedRoutes } from "./routes/calendar-feed.ts";
 import { redactFeedUrl } from "./plan/feed-links.ts";
 
 /** Route modules, in mount order. Each returns an express Router whose routes declare their permission. */
-const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, captureRoutes, analysisRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, calendarFeedRoutes, fleetRoutes];
+const ROUTE_MODULES: ((ctx: AppContext) => Router)[] = [authRoutes, userRoutes, outboxRoutes, auditRoutes, siteRoutes, assetRoutes, assetMotorModelRoutes, captureRoutes, analysisRoutes, findingRoutes, gatewayRoutes, inspectionRoutes, calendarFeedRoutes, fleetRoutes];
 
 export function createApp(ctx: AppContext, opts: { staticDir?: string } = {}) {
   const app = express();

@@ -3,6 +3,7 @@
 import { parseCapture, CaptureParseError } from "../src/engine/parse/index.ts";
 import { analyzeCapture, ENGINE_VERSION } from "../src/engine/analyze.ts";
 import type { AnalysisResult, Nameplate } from "../src/engine/types.ts";
+import type { AnalysisMotorModel } from "../src/engine/motor-model/index.ts";
 import { summariseCapture, toPlainJson, type AnalysisTaskOutput, type EncodedSpectrum } from "../server/captures/engine-io.ts";
 import { computeFullSpectrum, encodeSpectrum } from "../server/captures/spectrum-store.ts";
 
@@ -11,6 +12,8 @@ export interface AnalysisTaskInput {
   fileName: string;
   sampleRate?: number;
   nameplate: Nameplate;
+  /** The motor's model (measured circuit or nameplate to estimate from): the result then carries `model`. */
+  motorModel?: AnalysisMotorModel | null;
 }
 
 /** With BARHOUND_TIMING=1 the output carries `timing` (ms per step), for bench/pipeline.ts via workers/worker.ts. */
@@ -27,7 +30,7 @@ export default function analysisTask(input: AnalysisTaskInput): AnalysisTaskOutp
     throw err;
   }
   const t1 = performance.now();
-  const result = analyzeCapture(capture, input.nameplate, {});
+  const result = analyzeCapture(capture, input.nameplate, input.motorModel ? { motorModel: input.motorModel } : {});
   const t2 = performance.now();
   // The viewer's full-range spectrum of each channel, stored next to the capture by the job (server/captures/analysis-job.ts).
   // A channel whose spectrum cannot be computed is left out: the viewer computes it on demand.

@@ -6,6 +6,7 @@ import { nameplateOf } from "./engine-io.ts";
 import { writeAnalysisResult } from "./result.ts";
 import { notifyQuietly } from "./publish.ts";
 import { spectrumBlobKey } from "./spectrum-store.ts";
+import { analysisMotorModelOf, ctRatioOf, motorModelParams } from "./motor-model.ts";
 import type { AnalysisTaskInput } from "../../workers/analysis-task.ts";
 
 export interface JobDeps {
@@ -62,7 +63,10 @@ export async function runAnalysisJob(deps: JobDeps, job: AnalysisJobData, attemp
       throw err;
     }
     const nameplate = nameplateOf(asset);
-    const out = await deps.runTask({ bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), fileName: cap.file_name ?? "capture", sampleRate: cap.sample_rate ?? undefined, nameplate });
+    // The motor's model (saved measured circuit, else the nameplate estimate), with the CT ratio of the capture's point.
+    const point = cap.measurement_point_id ? await db("measurement_points").where({ id: cap.measurement_point_id }).first("kind", "ct_ratio") : null;
+    const motorModel = analysisMotorModelOf(asset, ctRatioOf(point));
+    const out = await deps.runTask({ bytes: new Uint8Array(bytes.buffer, bytes.byteOffset, bytes.byteLength), fileName: cap.file_name ?? "capture", sampleRate: cap.sample_rate ?? undefined, nameplate, motorModel });
     // A parse error is the file's fault: retrying will not help.
     if (out.parseError) throw new PermanentJobError(out.parseError.message);
     // Before the result, so a capture shown analysed already has its stored spectra. Not fatal: the viewer recomputes.
@@ -74,7 +78,7 @@ export async function runAnalysisJob(deps: JobDeps, job: AnalysisJobData, attemp
       version: job.version,
       engineVersion: out.engineVersion,
       nameplateVersion: asset.nameplate_version,
-      params: { nameplate, nameplateVersion: asset.nameplate_version, engineVersion: out.engineVersion },
+      params: { nameplate, nameplateVersion: asset.nameplate_version, engineVersion: out.engineVersion, motorModel: motorModelParams(asset, motorModel) },
       result: out.result,
       meta: out.meta,
     });

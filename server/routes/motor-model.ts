@@ -13,11 +13,23 @@
 //                         connection?, refine? } → { params, rotationalLossW, sources, notes }
 // Bad bodies answer 400 { error: "Invalid request", fields: { path: message } }; well-formed but physically
 // impossible inputs answer 422 { error }.
+//
+// A motor's measured model (`assetMotorModelRoutes`, guarded, in ROUTE_MODULES; admins, like every asset edit):
+// PUT    /api/assets/:id/motor-model[?reanalyse=1]  body: { method: "circuit", r1, x1, r2, x2, xm, rc?, rotationalLossW,
+//        connection? } or { method: "tests", noLoad, lockedRotor, statorResistanceDc?, designLetter, connection?, refine? }
+//        → the motor model as GET /api/assets/:id/motor-model answers it (+ queued)
+// DELETE /api/assets/:id/motor-model[?reanalyse=1]  back to the nameplate estimate → { cleared, queued? }
 
-import { Router, type ErrorRequestHandler } from "express";
+import { Router, type ErrorRequestHandler, type Request } from "express";
 import type { z } from "zod";
-import { zodFields } from "../errors.ts";
-import { flatEvaluateBody, fromTestsBody, nameplateBody, nestedEvaluateBody } from "../../src/shared/schemas/motor-model.ts";
+import type { AppContext } from "../context.ts";
+import { guardedRouter } from "../http.ts";
+import { HttpError, notFound, parseOr400, zodFields } from "../errors.ts";
+import { audit } from "../audit.ts";
+import { idParam } from "../captures/paging.ts";
+import { requeueAnalyses } from "../captures/ingest.ts";
+import { buildStoredModel, motorModelOf, storedModelOf } from "../captures/motor-model.ts";
+import { assetMotorModelBody, flatEvaluateBody, fromTestsBody, nameplateBody, nestedEvaluateBody } from "../../src/shared/schemas/motor-model.ts";
 import {
   checkOperatingPoint,
   curves,
@@ -102,4 +114,60 @@ export function motorModelRouter(): Router {
 
   router.use(handleErrors);
   return router;
+}
+
+const wantsReanalysis = (req: Request) => req.query.reanalyse === "1" || req.query.reanalyse === "true";
+
+/** Save measured circuit values on a motor, or go back to the nameplate estimate. Admins (assets.write), audited. */
+export function assetMotorModelRoutes(ctx: AppContext): Router {
+  const r = guardedRouter("/api");
+  const { db } = ctx;
+  // Every stored capture of the motor, as editing the nameplate does (PATCH /assets/:id?reanalyse=1).
+  const reanalyseAll = async (assetId: number) => (await requeueAnalyses(ctx, { assetId }, { newVersion: true })).length;
+
+  r.put("/assets/:id/motor-model", "assets.write", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    const body = parseOr400(assetMotorModelBody, req.body, "Invalid motor model");
+    const row = await db("assets").where({ id }).first();
+    if (!row) throw notFound("No such motor.");
+    let stored;
+    try {
+      stored = buildStoredModel(row, body, req.user ? { id: req.user.id, name: req.user.name } : null);
+    } catch (err) {
+      if (err instanceof MotorModelError) throw new HttpError(422, err.message, undefined, "motor-model");
+      throw err;
+    }
+    const replaced = storedModelOf(row) !== null;
+    await db.transaction(async (trx) => {
+      await trx("assets").where({ id }).update({ motor_model: JSON.stringify(stored), updated_at: trx.fn.now() });
+      await audit(trx, {
+        actor: req.user,
+        action: "asset.motor-model.saved",
+        subjectType: "asset",
+        subjectId: id,
+        details: { method: body.method, replaced, connection: stored.connection, frequencyHz: stored.frequencyHz, params: stored.params, rotationalLossW: stored.rotationalLossW },
+        ip: req.ip,
+      });
+    });
+    const queued = wantsReanalysis(req) ? await reanalyseAll(id) : 0;
+    const model = await motorModelOf(db, { ...row, motor_model: stored });
+    res.json({ ...model, ...(queued ? { queued } : {}) });
+  });
+
+  r.delete("/assets/:id/motor-model", "assets.write", async (req, res) => {
+    const id = idParam(req.params.id, "motor");
+    const row = await db("assets").where({ id }).first();
+    if (!row) throw notFound("No such motor.");
+    const cleared = storedModelOf(row) !== null;
+    if (cleared) {
+      await db.transaction(async (trx) => {
+        await trx("assets").where({ id }).update({ motor_model: null, updated_at: trx.fn.now() });
+        await audit(trx, { actor: req.user, action: "asset.motor-model.cleared", subjectType: "asset", subjectId: id, details: { method: row.motor_model?.method ?? null }, ip: req.ip });
+      });
+    }
+    const queued = cleared && wantsReanalysis(req) ? await reanalyseAll(id) : 0;
+    res.json({ cleared, ...(queued ? { queued } : {}) });
+  });
+
+  return r.router;
 }

@@ -5,6 +5,7 @@ import { synthCapture } from "../../src/engine/synth.ts";
 import { writeWav } from "../../src/engine/parse/index.ts";
 import { analyzeCapture, ENGINE_VERSION } from "../../src/engine/analyze.ts";
 import type { AnalysisResult, Capture, Nameplate } from "../../src/engine/types.ts";
+import type { AnalysisMotorModel } from "../../src/engine/motor-model/index.ts";
 import analysisTask from "../../workers/analysis-task.ts";
 import { summariseCapture, toPlainJson, type AnalysisTaskOutput } from "../captures/engine-io.ts";
 import type { CaptureSpec } from "./story.ts";
@@ -12,6 +13,8 @@ import type { CaptureSpec } from "./story.ts";
 export interface HistoryTaskInput {
   spec: Pick<CaptureSpec, "synth" | "extraVibration" | "fileName" | "keepBlob">;
   nameplate: Nameplate;
+  /** The motor's model, as the worker gives it (server/captures/motor-model.ts `analysisMotorModelOf`). */
+  motorModel?: AnalysisMotorModel | null;
 }
 
 export interface HistoryTaskOutput {
@@ -42,11 +45,11 @@ export default function historyTask(input: HistoryTaskInput): HistoryTaskOutput 
   if (input.spec.keepBlob) {
     // Kept: the stored bytes are what gets analysed, so a re-analysis of the blob gives the same result.
     const wav = writeWav(capture, { bits: 16 });
-    const output = analysisTask({ bytes: wav, fileName: input.spec.fileName, nameplate: input.nameplate });
+    const output = analysisTask({ bytes: wav, fileName: input.spec.fileName, nameplate: input.nameplate, motorModel: input.motorModel });
     return { output, wav, byteSize: wav.byteLength };
   }
   // Not kept: the same engine call on the samples themselves (16-bit quantisation changes nothing measurable).
-  const result = analyzeCapture(capture, input.nameplate, {});
+  const result = analyzeCapture(capture, input.nameplate, input.motorModel ? { motorModel: input.motorModel } : {});
   const output: AnalysisTaskOutput = { engineVersion: ENGINE_VERSION, meta: summariseCapture(capture), result: toPlainJson(result) as AnalysisResult };
   return { output, wav: null, byteSize: wavBytes(capture) };
 }

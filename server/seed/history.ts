@@ -12,6 +12,7 @@ import type { Knex } from "knex";
 import { Piscina } from "piscina";
 import type { BlobStore } from "../blob/store.ts";
 import { nameplateOf } from "../captures/engine-io.ts";
+import { analysisMotorModelOf, motorModelParams } from "../captures/motor-model.ts";
 import { writeAnalysisResult } from "../captures/result.ts";
 import { computePriority } from "../plan/priority.ts";
 import { historyPlan, type CaptureSpec } from "./story.ts";
@@ -107,7 +108,7 @@ export async function seedHistory(db: Knex, opts: HistoryOptions): Promise<Histo
   try {
     // Everything is submitted at once; writes follow in plan order (oldest first per motor, as the findings rule needs).
     const pending = plan.map((spec) => {
-      const p = runner.run({ spec: { synth: spec.synth, extraVibration: spec.extraVibration, fileName: spec.fileName, keepBlob: spec.keepBlob }, nameplate: nameplateOf(assets.get(spec.tag)) });
+      const p = runner.run({ spec: { synth: spec.synth, extraVibration: spec.extraVibration, fileName: spec.fileName, keepBlob: spec.keepBlob }, nameplate: nameplateOf(assets.get(spec.tag)), motorModel: analysisMotorModelOf(assets.get(spec.tag)) });
       p.catch(() => {}); // awaited below, in order
       return p;
     });
@@ -158,7 +159,7 @@ export async function seedHistory(db: Knex, opts: HistoryOptions): Promise<Histo
           version: 1,
           engineVersion: out.output.engineVersion,
           nameplateVersion: asset.nameplate_version,
-          params: { nameplate, nameplateVersion: asset.nameplate_version, engineVersion: out.output.engineVersion },
+          params: { nameplate, nameplateVersion: asset.nameplate_version, engineVersion: out.output.engineVersion, motorModel: motorModelParams(asset, analysisMotorModelOf(asset)) },
           result: out.output.result,
           meta,
         });

@@ -25,9 +25,11 @@ import { assessRotor, gradeFromDepth, measureSidebands, LIGHT_LOAD_PCT, type Sid
 import { parkAnalysis, type ParkResult } from "./park.ts";
 import { analyzeVibration, vibrationLowBand, vibrationLowPassHz, type VibrationAnalysis } from "./vibration.ts";
 import { assessBearings, bearingGeometryProblem } from "./bearings.ts";
+import { analysisModelReading } from "./motor-model/operating-point.ts";
 import { inferRatedHz, minCaptureSeconds, ratedSlip, rpmFromSlip, syncRpm, rotorHz, slotHarmonicHz, thomsonBrokenBars } from "./formulas.ts";
 
-export const ENGINE_VERSION = "1.1.0";
+/** Semantic version of the result: minor bumps add fields (1.1.0 bearings, 1.2.0 `model` with a motor model). */
+export const ENGINE_VERSION = "1.2.0";
 
 interface CurrentChannelWork {
   ch: Channel;
@@ -360,18 +362,25 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
   }
 
   const ns = fz ? syncRpm(fz, poles) : null;
+  const loadEstimates = load.estimates.map((e) => ({ ...e, loadPct: r(e.loadPct, 1) }));
+  const slipOut = slip !== null ? r(slip, 6) : null;
+  const supplyOut = fz !== null ? r(fz, 4) : null;
+  // ---- motor model (when given): the equivalent circuit at the measured slip, beside the slip method ---------
+  const model = options.motorModel
+    ? analysisModelReading(options.motorModel, { slip: slipOut, supplyHz: supplyOut, phases, loadEstimates }, capture.channels, options.measuredVoltage)
+    : null;
   return {
     engineVersion: ENGINE_VERSION,
-    supplyHz: fz !== null ? r(fz, 4) : null,
+    supplyHz: supplyOut,
     syncRpm: ns !== null ? r(ns, 2) : null,
-    slip: slip !== null ? r(slip, 6) : null,
+    slip: slipOut,
     rpm: slip !== null && fz ? r(rpmFromSlip(fz, poles, slip), 2) : null,
     slipEstimates: slipEstimates.map((e) => ({ ...e, slip: r(e.slip, 6), rpm: r(e.rpm, 2), confidence: r(e.confidence, 3) })),
     slipConfidence: r(slipConfidence, 3),
     slipByPhase,
     loadPct: load.loadPct,
     loadMethod: load.loadMethod,
-    loadEstimates: load.estimates.map((e) => ({ ...e, loadPct: r(e.loadPct, 1) })),
+    loadEstimates,
     brokenBar,
     vibration,
     vibrationChannels,
@@ -385,6 +394,7 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
     phases,
     park: park ? { twoSfHz: r(park.twoSfHz, 4), depthDb: park.depthDb !== null ? r(park.depthDb, 2) : null, detected: park.detected } : null,
     plausibleSlip: range ? { min: r(range.min, 6), max: r(range.max, 6), nominal: r(range.nominal, 6) } : null,
+    ...(model ? { model } : {}),
   };
 }
 

@@ -1,5 +1,6 @@
 // Shared types of the analysis engine. The engine is pure TypeScript: no server, database or DOM imports,
 // so the worker, the command line, the tests and the browser all use the same code.
+import type { AnalysisMotorModel, ModelReading } from "./motor-model/operating-point.ts";
 
 export type ChannelKind = "current" | "vibration" | "voltage" | "other";
 
@@ -121,6 +122,12 @@ export interface BearingsResult {
 export interface AnalysisOptions {
   /** Measured line voltage during the capture, for the slip method's voltage correction. */
   measuredVoltage?: number;
+  /**
+   * The motor's model (a measured circuit, or the nameplate to estimate one from): with it the result gains
+   * `model`, the equivalent circuit's load, output, torque, efficiency and current at the measured slip
+   * (motor-model/operating-point.ts). Nothing else in the result changes.
+   */
+  motorModel?: AnalysisMotorModel;
 }
 
 export type Severity = "info" | "warning" | "error";
@@ -210,6 +217,8 @@ export interface AnalysisResult {
   bearings?: BearingsResult;
   quality: QualityVerdict[];
   markers: Marker[];
+  /** Model-based reading at the measured slip, when the analysis was given the motor's model (engine ≥ 1.2.0). */
+  model?: ModelReading;
   /** Free-form extras (per-phase results, Park's vector, model-based load...). */
   [extra: string]: unknown;
 }

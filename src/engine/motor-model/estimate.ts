@@ -26,6 +26,7 @@ import {
   type DesignLetter,
   type MotorModelInput,
   type OperatingPoint,
+  type ParamName,
   type ParamSources,
 } from "./types.ts";
 
@@ -42,6 +43,8 @@ export type NameplateForModel = Pick<Nameplate, "poles" | "ratedRpm" | "ratedHz"
 export interface NameplateEstimate {
   input: MotorModelInput;
   sources: ParamSources;
+  /** For each value, the assumption or fit behind it in one sentence (the motor page shows it beside the value). */
+  basis: Partial<Record<ParamName, string>>;
   assumptions: string[];
   /** The model evaluated at rated slip, to show how well it reproduces the nameplate. */
   ratedPoint: OperatingPoint;
@@ -382,6 +385,24 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
   }
 
   const est = "nameplate-estimate" as const;
+  const split = `design ${design} split ${share} : ${(1 - share).toFixed(1)} of X1 + X2, which is set so breakdown torque is ${breakdownRatio.toFixed(2)} × full-load torque (assumed)`;
+  const basis: Partial<Record<ParamName, string>> = {
+    r1: `Stator copper loss ${statorCuW.toFixed(0)} W (what the full-load losses leave after core, friction and windage, and rotor copper) / (3·I²).`,
+    x1: `X1: the ${split}.`,
+    x2: `X2: the ${split}.`,
+    r2: `Solved so the model gives the rated ${np.ratedKw} kW at the rated slip ${sRated.toFixed(4)}.`,
+    xm: currentMatched
+      ? `Solved so the model draws the rated ${np.ratedCurrent} A at the rated slip.`
+      : `At the end of its plausible range: the rated ${np.ratedCurrent} A could not be matched.`,
+    rc: `Set for an assumed core loss of ${coreW.toFixed(0)} W (${pct(coreW / losses, 0)} of the full-load losses, rule of thumb).`,
+    rotationalLossW: `Friction, windage and stray load assumed ${pct(rotationalW / losses, 0)} of the ${losses.toFixed(0)} W full-load losses (rule of thumb), constant at every speed.`,
+    ...(deepBar
+      ? {
+          rotorLockedR2: `Fitted to an assumed starting torque of ${lrTorqueRatio} × full-load torque (typical for design ${design}, from memory).`,
+          rotorLockedX2: `Fitted to an assumed starting current of ${+(lrCurrentRatio as number).toFixed(2)} × rated current (typical for design ${design}, from memory).`,
+        }
+      : {}),
+  };
   return {
     input,
     sources: {
@@ -394,6 +415,7 @@ export function estimateFromNameplate(np: NameplateForModel): NameplateEstimate 
       ...(deepBar ? { rotorLockedR2: est, rotorLockedX2: est } : {}),
       rotationalLossW: est,
     },
+    basis,
     assumptions,
     ratedPoint,
   };

@@ -13,7 +13,7 @@
 import { complex, inv, sub, type Complex } from "./complex.ts";
 import { DEEP_BAR_XI_AT_STANDSTILL, deepBarWeights } from "./circuit.ts";
 import { STATOR_LEAKAGE_SHARE } from "./design.ts";
-import { MotorModelError, type CircuitParams, type Connection, type DesignLetter, type ParamSources } from "./types.ts";
+import { MotorModelError, type CircuitParams, type Connection, type DesignLetter, type ParamName, type ParamSources } from "./types.ts";
 
 /** One test reading: line voltage (V), line current (A), total three-phase input power (W), frequency (Hz). */
 export interface TestReading {
@@ -42,8 +42,13 @@ export interface FromTestsResult {
   /** Friction, windage and core loss from the no-load test, W (core loss is lumped here, so rc is null). */
   rotationalLossW: number;
   sources: ParamSources;
+  /** For each value, the test it comes from (or "entered" for the DC resistance) and how, in one sentence. */
+  detail: Partial<Record<ParamName, { source: TestValueSource; basis: string }>>;
   notes: string[];
 }
+
+/** Which reading a value came from, as the motor page names it. */
+export type TestValueSource = "no-load test" | "locked-rotor test" | "entered";
 
 function perPhase(r: TestReading, connection: Connection): { v: number; i: number; cos: number } {
   if (!(r.V > 0 && r.I > 0 && r.P >= 0 && r.f > 0)) throw new MotorModelError("Test readings need V > 0, I > 0, P ≥ 0 and f > 0.");
@@ -123,10 +128,23 @@ export function fromTests(data: TestData): FromTestsResult {
   const rotationalLossW = data.noLoad.P - 3 * nl.i * nl.i * r1;
   notes.push(`Rotational loss (friction, windage and core, lumped) = ${rotationalLossW.toFixed(0)} W from the no-load test.`);
   const test = "no-load/locked-rotor test" as const;
+  const refined = data.refine ? " (refined: magnetising branch kept)" : "";
+  const lrSplit = `${data.designLetter === "wound" ? "wound-rotor" : `design ${data.designLetter}`} split ${share} : ${(1 - share).toFixed(1)} of X1 + X2`;
+  const detail: FromTestsResult["detail"] = {
+    r1: hasDc
+      ? { source: "entered", basis: "DC stator resistance entered (DC test)." }
+      : { source: "locked-rotor test", basis: "No DC test: R1 = R2 assumed, half the locked-rotor resistance." },
+    r2: { source: "locked-rotor test", basis: `Locked-rotor resistance P/(3·I²) less R1${refined}.` },
+    x1: { source: "locked-rotor test", basis: `Locked-rotor reactance at ${fRated} Hz, the ${lrSplit}${refined}.` },
+    x2: { source: "locked-rotor test", basis: `Locked-rotor reactance at ${fRated} Hz, the ${lrSplit}${refined}.` },
+    xm: { source: "no-load test", basis: `No-load reactance less X1 from the locked-rotor test${data.refine ? " (refined: the shunt branch after the stator impedance)" : ""}.` },
+    rotationalLossW: { source: "no-load test", basis: "No-load input power less the stator copper loss 3·I²·R1: friction, windage and core, lumped." },
+  };
   return {
     params: { r1, x1, r2, x2, xm, rc: null },
     rotationalLossW: Math.max(0, rotationalLossW),
     sources: { r1: hasDc ? "entered" : test, x1: test, r2: test, x2: test, xm: test, rotationalLossW: test },
+    detail,
     notes,
   };
 }

@@ -25,8 +25,22 @@ export {
 export { thevenin, theveninTorque, type TheveninForm, type TheveninResult } from "./thevenin.ts";
 export { curves, keyPoints, breakdownSlip, type CurveOptions, type KeyPoints, type MotorCurves, type TorquePoint } from "./curves.ts";
 export { estimateFromNameplate, type NameplateEstimate, type NameplateForModel } from "./estimate.ts";
-export { fromTests, type FromTestsResult, type TestData, type TestReading } from "./from-tests.ts";
-export { loadFromSlip, checkOperatingPoint, CURRENT_MISMATCH_LIMIT, type ModelLoad } from "./load.ts";
+export { fromTests, type FromTestsResult, type TestData, type TestReading, type TestValueSource } from "./from-tests.ts";
+export { loadFromSlip, checkOperatingPoint, CURRENT_MISMATCH_LIMIT, type CheckOptions, type ModelLoad } from "./load.ts";
+export {
+  modelReading,
+  analysisModelReading,
+  resolveMotorModel,
+  measuredLineCurrentA,
+  ampsPerUnit,
+  atSupplyFrequency,
+  FREQUENCY_SHIFT_HZ,
+  type AnalysisMotorModel,
+  type MeasuredPoint,
+  type ModelForReading,
+  type ModelReading,
+  type ModelSource,
+} from "./operating-point.ts";
 export {
   STATOR_LEAKAGE_SHARE,
   BREAKDOWN_TORQUE_RATIO,

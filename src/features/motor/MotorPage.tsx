@@ -12,8 +12,10 @@ import { ZoneBadge } from "../../components/ZoneBadge.tsx";
 import { errorMessage } from "../../lib/api.ts";
 import type { AssetDetail, Capture, Finding, Inspection } from "../../lib/contracts.ts";
 import { formatDate, formatDateTime } from "../../lib/format.ts";
+import { outcomeLabel } from "../../lib/inspections.ts";
 import { useCaptureDetail, useMotor, useMotorCaptureHistory, useMotorFindings, useMotorInspections, useMotorModel, useTrend } from "./api/get-motor.ts";
 import { LoadComparison, ModelCurves } from "./components/ModelCurves.tsx";
+import { CircuitTable, MeasuredModelActions } from "./components/MotorModelCircuit.tsx";
 import { ProjectionNote, Trends, TrendTruncationNote } from "./components/Trends.tsx";
 import { MoveMotorButton } from "./components/MoveMotor.tsx";
 import { Bearings } from "./components/Bearings.tsx";
@@ -91,7 +93,10 @@ export default function MotorPage() {
               </div>
             )}
           </Section>
-          <Section title="Motor model">
+          <Section
+            title="Motor model"
+            actions={can("assets.write") ? <MeasuredModelActions motor={m} model={model.data} onDone={(text) => setNotice({ tone: "success", text })} /> : undefined}
+          >
             {model.isPending ? (
               <Spinner label="Computing the model…" />
             ) : model.isError ? (
@@ -99,6 +104,8 @@ export default function MotorPage() {
             ) : (
               <>
                 <ModelCurves model={model.data} />
+                <h3 className="mt-4 mb-1 font-semibold">Equivalent circuit</h3>
+                <CircuitTable model={model.data} />
                 {model.data.assumptions.length > 0 && (
                   <details className="mt-3 text-caption text-ink-muted">
                     <summary className="cursor-pointer">The circuit is an estimate from the nameplate: {model.data.assumptions.length} assumptions</summary>
@@ -110,7 +117,7 @@ export default function MotorPage() {
                   </details>
                 )}
                 <h3 className="mt-4 mb-1 font-semibold">Load: model-based against slip method</h3>
-                <LoadComparison model={model.data} points={points} ratedKw={m.ratedKw} />
+                <LoadComparison model={model.data} ratedKw={m.ratedKw} />
               </>
             )}
           </Section>
@@ -316,7 +323,7 @@ function Inspections({ assetId }: { assetId: number }) {
                 </div>
                 <p className="text-caption text-ink-muted">
                   {INSPECTION_STATUS[i.status] ?? i.status} · {i.priority} priority{i.assigneeName ? ` · ${i.assigneeName}` : ""}
-                  {i.outcome ? ` · outcome: ${i.outcome}` : ""}
+                  {i.outcome ? ` · ${outcomeLabel(i.outcome)}` : ""}
                 </p>
               </li>
             );

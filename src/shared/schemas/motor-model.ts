@@ -14,7 +14,7 @@ export const poles = num("the poles")
   .max(120, "At most 120.")
   .refine((p) => p % 2 === 0, "Poles come in pairs: an even number.");
 export const connection = z.enum(["star", "delta"], { message: "Pick star or delta." });
-const designLetter = z.enum(["A", "B", "C", "D", "wound"], { message: "A, B, C, D or wound" });
+export const designLetter = z.enum(["A", "B", "C", "D", "wound"], { message: "A, B, C, D or wound" });
 
 /** The per-phase equivalent circuit, referred to the stator. */
 export const circuitFields = {
@@ -59,7 +59,9 @@ export const nameplateBody = z.object({
   connection: connection.optional(),
 });
 
-const reading = z.object({ V: positive("the voltage", "V"), I: positive("the current", "A"), P: nonNegative("the power", "W"), f: positive("the frequency", "Hz") });
+/** One test reading: line voltage, line current, total three-phase input power and frequency. */
+export const readingFields = { V: positive("the voltage", "V"), I: positive("the current", "A"), P: nonNegative("the power", "W"), f: positive("the frequency", "Hz") };
+const reading = z.object(readingFields);
 export const fromTestsBody = z.object({
   noLoad: reading,
   lockedRotor: reading,
@@ -68,3 +70,39 @@ export const fromTestsBody = z.object({
   connection: connection.optional(),
   refine: z.boolean({ message: "refine is true or false" }).optional(),
 });
+
+// ---- A motor's measured model: PUT /api/assets/:id/motor-model -------------------------------------------------
+// Either the circuit values themselves (from a test report or the manufacturer), or the no-load and locked-rotor
+// readings they are computed from (the same computation as /from-tests). The voltage, frequency and poles the model
+// runs at are the motor's nameplate; the connection is the one the per-phase values refer to.
+
+/** The six circuit values and the rotational losses, as entered. */
+export const measuredCircuitFields = {
+  r1: circuitFields.r1,
+  x1: circuitFields.x1,
+  r2: circuitFields.r2,
+  x2: circuitFields.x2,
+  xm: circuitFields.xm,
+  /** Empty: the core loss is inside the rotational losses. */
+  rc: circuitFields.rc,
+  rotationalLossW: nonNegative("the rotational losses", "W"),
+  connection: connection.optional(),
+};
+export const measuredCircuitBody = z.object({ method: z.literal("circuit"), ...measuredCircuitFields }).strict();
+
+/** The no-load and locked-rotor test readings, as in POST /motor-model/from-tests. */
+export const measuredTestsFields = {
+  noLoad: reading.strict(),
+  lockedRotor: reading.strict(),
+  statorResistanceDc: positive("the DC stator resistance", "Ω").optional(),
+  designLetter,
+  connection: connection.optional(),
+  refine: z.boolean({ message: "refine is true or false" }).optional(),
+};
+export const measuredTestsBody = z.object({ method: z.literal("tests"), ...measuredTestsFields }).strict();
+
+export const MEASURED_METHODS = ["circuit", "tests"] as const;
+export const assetMotorModelBody = z.discriminatedUnion("method", [measuredCircuitBody, measuredTestsBody], {
+  error: (iss) => (iss.code === "invalid_union" ? "Say how the values were found: circuit (the values themselves) or tests (no-load and locked-rotor readings)." : undefined),
+});
+export type AssetMotorModelBody = z.infer<typeof assetMotorModelBody>;

@@ -2,7 +2,8 @@ import { queryOptions, useQuery } from "@tanstack/react-query";
 import { apiGet, type Paged } from "../../../lib/api.ts";
 import type { AssetDetail, Capture, CaptureDetail, Finding, Inspection } from "../../../lib/contracts.ts";
 import type { MotorCurves, KeyPoints } from "../../../engine/motor-model/index.ts";
-import type { MotorModelInput } from "../../../engine/motor-model/types.ts";
+import type { ModelFlag, MotorModelInput } from "../../../engine/motor-model/types.ts";
+import type { AssetMotorModelBody } from "../../../shared/schemas/motor-model.ts";
 import { motorKeys } from "./keys.ts";
 
 export const motorQueryOptions = (id: number) =>
@@ -38,13 +39,46 @@ export const trendQueryOptions = (id: number) =>
   queryOptions({ queryKey: motorKeys.trend(id), queryFn: ({ signal }) => apiGet<TrendAnswer>(`/assets/${id}/trend`, undefined, signal) });
 export const useTrend = (id: number) => useQuery(trendQueryOptions(id));
 
+/** One circuit value of the motor model and where it came from (server/captures/motor-model.ts). */
+export interface CircuitValue {
+  name: string;
+  label: string;
+  meaning: string;
+  value: number | null;
+  unit: "Ω" | "W";
+  source: "nameplate estimate" | "no-load test" | "locked-rotor test" | "entered";
+  basis: string;
+}
+
+/** An analysed capture on the model: measured current beside the model's, model-based load beside the slip method's. */
+export interface ModelOperatingPoint {
+  takenAt: string;
+  captureId: number;
+  analysisId: number;
+  slip: number;
+  rpm: number;
+  supplyHz: number | null;
+  torqueNm: number | null;
+  /** Measured line current, A (null without a current channel). */
+  currentA: number | null;
+  modelCurrentA: number | null;
+  currentRatio: number | null;
+  loadPct: number | null;
+  slipMethodLoadPct: number | null;
+  flags: ModelFlag[];
+}
+
 export interface MotorModelResponse {
+  origin: "nameplate-estimate" | "measured";
+  measured: { method: "circuit" | "tests"; entered: AssetMotorModelBody; notes: string[]; savedAt: string; savedBy: { id: number; name: string } | null; connection: string; frequencyHz: number } | null;
   input: MotorModelInput;
-  sources: unknown;
+  sources: Record<string, string>;
+  circuit: CircuitValue[];
   assumptions: string[];
   curves: MotorCurves;
   keyPoints: KeyPoints;
-  operatingPoints: { takenAt: string; slip: number; rpm: number; torqueNm: number | null; currentA: number }[];
+  operatingPoints: ModelOperatingPoint[];
+  currentTolerancePct: number;
 }
 export const motorModelQueryOptions = (id: number) =>
   queryOptions({

@@ -5,6 +5,7 @@ import { Figure } from "../../../components/Figure.tsx";
 import { GradeBadge } from "../../../components/GradeBadge.tsx";
 import { ZoneBadge } from "../../../components/ZoneBadge.tsx";
 import type { AnalysisResult } from "../../../engine/types.ts";
+import type { ModelReading } from "../../../engine/motor-model/index.ts";
 
 const METHOD_NAMES: Record<string, string> = {
   eccentricity: "eccentricity lines f ± fr",
@@ -48,6 +49,7 @@ export function Readings({ a }: { a: AnalysisResult }) {
       <Row label="Load" hint={<>estimate · {methodName(a.loadMethod)}</>}>
         <Figure value={a.loadPct} unit="%" digits={0} estimate={methodName(a.loadMethod)} />
       </Row>
+      {a.model && <ModelLoadRow m={a.model} />}
       <Row label={<>Lower sideband<br /><span className="num">f − 2sf</span></>} hint={bb.lowerHz !== null ? <>at <span className="num">{bb.lowerHz.toFixed(3)} Hz</span></> : undefined}>
         {bb.lowerDb === null ? "—" : <span className="num">{bb.lowerDb.toFixed(1)} dB <span className="text-ink-muted">below f</span></span>}
       </Row>
@@ -96,6 +98,49 @@ export function Readings({ a }: { a: AnalysisResult }) {
         </>
       )}
     </dl>
+  );
+}
+
+/** The motor model's load at the measured slip, beside the slip method's, with its output, torque, efficiency and flags. */
+function ModelLoadRow({ m }: { m: ModelReading }) {
+  const apart = m.apartPct;
+  return (
+    <Row
+      label="Load (motor model)"
+      hint={
+        <>
+          {m.source === "measured" ? "measured circuit" : "circuit estimated from the nameplate"}
+          {apart !== null && (
+            <>
+              {" · "}
+              <span className="num">{`${apart >= 0 ? "+" : "\u2212"}${Math.abs(apart).toFixed(1)} pp`}</span> from the slip method
+            </>
+          )}
+          {m.outputKw !== null && (
+            <>
+              {" · "}
+              <span className="num">{m.outputKw.toFixed(1)} kW</span>
+              {m.torqueNm !== null && <>, <span className="num">{m.torqueNm.toFixed(0)} N·m</span></>}
+              {m.efficiency !== null && <>, η <span className="num">{(m.efficiency * 100).toFixed(1)} %</span></>}
+            </>
+          )}
+          {m.measuredCurrentA !== null && m.modelCurrentA !== null && (
+            <>
+              {" · current "}
+              <span className="num">{m.measuredCurrentA.toFixed(1)} A</span> measured, <span className="num">{m.modelCurrentA.toFixed(1)} A</span> model
+            </>
+          )}
+          {m.flags.map((f) => (
+            <div key={f.code} className="text-caution" data-code={f.code}>
+              <span aria-hidden="true">◆ </span>
+              {f.message}
+            </div>
+          ))}
+        </>
+      }
+    >
+      <Figure value={m.loadPct} unit="%" digits={0} estimate="motor model" />
+    </Row>
   );
 }
 
