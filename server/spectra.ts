@@ -1,6 +1,7 @@
 // Display decimation for spectra and waveforms: a plot is ~2000 pixels wide, a spectrum may have a million
 // bins. Each pixel bucket keeps the min and the max of its bins, so a single narrow line (a sideband, a spike)
-// survives at any zoom instead of being averaged away.
+// survives at any zoom instead of being averaged away, and where in the bucket each of them sits (the x of the
+// max bin and of the min bin), so a line is drawn and read at its own bin, never at the bucket's middle.
 
 /** Values on a uniform grid: point i is at x0 + i·dx. */
 export interface UniformSeries {
@@ -10,9 +11,16 @@ export interface UniformSeries {
 }
 
 export interface Decimated {
+  /** The bucket's centre (the point itself when not decimated). */
   x: number[];
   min: number[];
   max: number[];
+  /** x of the point where each bucket's max occurs (the first, on a tie): a point of the grid, exactly. */
+  maxX: number[];
+  /** x of the point where each bucket's min occurs (the first, on a tie). */
+  minX: number[];
+  /** Nominal bucket width in x (points per bucket × dx); dx when not decimated. */
+  bucketDx: number;
   /** False when the range held ≤ buckets points and every point is returned as is (min = max). */
   decimated: boolean;
   /** Index range [from, to) of the points covered. */
@@ -41,26 +49,39 @@ export function decimateMinMax(s: UniformSeries, opts: { xMin?: number; xMax?: n
       x[i] = s.x0 + (from + i) * s.dx;
       vals[i] = v[from + i];
     }
-    return { x, min: vals, max: vals.slice(), decimated: false, from, to };
+    return { x, min: vals, max: vals.slice(), maxX: x.slice(), minX: x.slice(), bucketDx: s.dx, decimated: false, from, to };
   }
   const x = new Array<number>(buckets);
   const min = new Array<number>(buckets);
   const max = new Array<number>(buckets);
+  const maxX = new Array<number>(buckets);
+  const minX = new Array<number>(buckets);
   for (let b = 0; b < buckets; b++) {
     const i0 = from + Math.floor((b * count) / buckets);
     const i1 = from + Math.floor(((b + 1) * count) / buckets);
     let lo = Infinity;
     let hi = -Infinity;
+    let iLo = i0;
+    let iHi = i0;
     for (let i = i0; i < i1; i++) {
       const y = v[i];
-      if (y < lo) lo = y;
-      if (y > hi) hi = y;
+      if (y < lo) {
+        lo = y;
+        iLo = i;
+      }
+      if (y > hi) {
+        hi = y;
+        iHi = i;
+      }
     }
     x[b] = s.x0 + (i0 + (i1 - 1 - i0) / 2) * s.dx; // bucket centre
     min[b] = lo;
     max[b] = hi;
+    // computed as x0 + i·dx, like the full-resolution points, so a bin's x is the same number in every view
+    maxX[b] = s.x0 + iHi * s.dx;
+    minX[b] = s.x0 + iLo * s.dx;
   }
-  return { x, min, max, decimated: true, from, to };
+  return { x, min, max, maxX, minX, bucketDx: (count / buckets) * s.dx, decimated: true, from, to };
 }
 
 /** A small least-recently-used cache with a size budget (bytes, as the caller counts them). */

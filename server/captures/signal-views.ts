@@ -103,7 +103,23 @@ export async function spectrumView(
   const fMax = Math.min(top, q.fmax ?? top);
   if (!(fMax > fMin)) throw badRequest("Invalid frequency range", { fmax: `fmax must be above fmin (the spectrum spans ${s.series.x0}–${top.toFixed(1)} Hz)` });
   const d = decimateMinMax(s.series, { xMin: fMin, xMax: fMax, buckets: q.buckets });
-  return { channel: s.channel, unit: s.unit, fMin, fMax, resolutionHz: s.resolutionHz, lowCutHz: s.lowCutHz ?? null, decimated: d.decimated, hz: d.x, min: d.min, max: d.max };
+  // Each point sits at the bin of its bucket's max (a line is drawn and read at its own bin); minHz says where the
+  // bucket's min is, only when decimated (otherwise every point is one bin and min = max).
+  return {
+    channel: s.channel,
+    unit: s.unit,
+    fMin,
+    fMax,
+    resolutionHz: s.resolutionHz,
+    binHz: s.series.dx,
+    lowCutHz: s.lowCutHz ?? null,
+    decimated: d.decimated,
+    bucketHz: d.decimated ? d.bucketDx : null,
+    hz: d.maxX,
+    minHz: d.decimated ? d.minX : null,
+    min: d.min,
+    max: d.max,
+  };
 }
 
 export async function waveformView(db: Knex, blob: BlobStore, id: number, q: { channel?: string; from?: number; to?: number; buckets: number }) {

@@ -2,6 +2,7 @@ import { describe, expect, it } from "vitest";
 import {
   clampRange,
   cursorReadout,
+  envelopeColumns,
   findPeaks,
   minMaxDecimate,
   nearestIndex,
@@ -10,12 +11,12 @@ import {
   periodEnvelope,
   placeMarkers,
   resampleOnto,
-  stepPeak,
   supplyWindow,
   valueToX,
   xToValue,
   zoomRange,
 } from "../../src/features/spectrum/lib/viewer-math.ts";
+import { nextTarget } from "../../src/features/spectrum/lib/peak-steps.ts";
 
 const box = { left: 40, width: 800 };
 
@@ -114,6 +115,9 @@ describe("cursor readout", () => {
     expect(r.label).toBe("f − 2.875 Hz");
     expect(cursorReadout(100, -40, null, 0.02).label).toBe("—");
     expect(offsetLabel(0.5, null)).toBe("f + 0.500 Hz");
+    expect(offsetLabel(0.5, null, { hz: 1 })).toBe("f + 0.5 Hz");
+    expect(offsetLabel(0.04, null, { hz: 1 })).toBe("f");
+    expect(offsetLabel(1.4, 1.73, { multiple: 0 })).toBe("f + 2sf");
   });
 
   it("finds the nearest sample by binary search", () => {
@@ -167,6 +171,17 @@ describe("min/max decimation for display", () => {
     expect(minMaxDecimate(x, min, max, 2, 10, 20).x.length).toBe(0);
   });
 
+  it("draws each bucket's max and min at their own bins: one x array, the other's points null", () => {
+    // buckets [0,1,2], [3,4,5]: max at 1 and 5, min at 2 and 3; a third bucket of one bin (min and max there)
+    const c = envelopeColumns([1, 5, 6], [10, 20, 7], [-1, -2, 7], [2, 3, 6], [9, 19, 8]);
+    expect(c.x).toEqual([1, 2, 3, 5, 6]);
+    expect(c.max).toEqual([10, null, null, 20, 7]);
+    expect(c.min).toEqual([null, -1, -2, null, 7]);
+    expect(c.overlay).toEqual([9, null, null, 19, 8]);
+    // full resolution: no minHz, the columns as they are
+    expect(envelopeColumns([1, 2], [3, 4], [3, 4], null)).toEqual({ x: [1, 2], max: [3, 4], min: [3, 4], overlay: null });
+  });
+
   it("puts an overlay on the main x grid, keeping its peaks", () => {
     const target = [0, 1, 2, 3, 4];
     const srcX = [0, 0.4, 0.9, 1.1, 2.05, 2.6, 3.2];
@@ -188,12 +203,13 @@ describe("peak stepping", () => {
   });
 
   it("steps right and left from the cursor, and stops at the ends", () => {
-    const peaks = findPeaks(y, { prominence: 6, halfWidth: 3 });
-    expect(x[stepPeak(x, peaks, 50, 1)!]).toBe(52);
-    expect(x[stepPeak(x, peaks, 50, -1)!]).toBe(48);
-    expect(x[stepPeak(x, peaks, 49.1, 1)!]).toBe(50);
-    expect(stepPeak(x, peaks, 52, 1)).toBeNull();
-    expect(stepPeak(x, peaks, 48, -1)).toBeNull();
+    const targets = findPeaks(y, { prominence: 6, halfWidth: 3 }).map((i) => ({ hz: x[i] }));
+    expect(nextTarget(targets, 50, 1)?.hz).toBe(52);
+    expect(nextTarget(targets, 50, -1)?.hz).toBe(48);
+    expect(nextTarget(targets, 49.1, 1)?.hz).toBe(50);
+    expect(nextTarget(targets, 49.9, 1, 0.25)?.hz).toBe(52); // within the tolerance of a line: on it, move on
+    expect(nextTarget(targets, 52, 1)).toBeNull();
+    expect(nextTarget(targets, 48, -1)).toBeNull();
   });
 
   it("skips a side lobe on the supply line's skirt (topographic prominence, not height)", () => {

@@ -7,11 +7,19 @@ export interface SpectrumResponse {
   unit: string;
   fMin: number;
   fMax: number;
+  /** Frequency resolution 1/T. */
   resolutionHz: number;
+  /** Bin spacing of the full-resolution spectrum (finer than resolutionHz when the transform was zero-padded). */
+  binHz: number;
   /** Velocity integrated from acceleration: below this frequency nothing is shown (0). */
   lowCutHz: number | null;
   decimated: boolean;
+  /** Width of a bucket when decimated, else null. */
+  bucketHz: number | null;
+  /** Each point's frequency: a bin's, that of its bucket's max when decimated. */
   hz: number[];
+  /** Where each bucket's min is (a bin's frequency) when decimated, else null (min = max, at hz). */
+  minHz: number[] | null;
   min: number[];
   max: number[];
 }

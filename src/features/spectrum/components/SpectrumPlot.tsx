@@ -1,5 +1,6 @@
-// The spectrum chart: a min/max band (so decimated data keeps its peaks and notches), an optional overlay of an
-// earlier capture, the engine's markers drawn at their exact frequencies, and the analyst's cursor. The x range is
+// The spectrum chart: a min/max band (so decimated data keeps its peaks and notches; each max and each min drawn
+// at its own bin, as the server's answer gives them), an optional overlay of an earlier capture, the engine's
+// markers drawn at their exact frequencies, and the analyst's cursor. The x range is
 // driven by the viewer (zoom/pan refetch at full resolution); uPlot's own drag-zoom is turned into a callback,
 // and a drag with Shift (or the middle button) pans instead. Every draw leaves a `bh:spectrum-drawn` performance
 // mark ({ fmin, fmax, points }) and the drawn point count in the host's data-drawn-points.
@@ -7,30 +8,36 @@ import { useEffect, useMemo, useRef } from "react";
 import type uPlot from "uplot";
 import { axis, MONO_FONT, themeColor, UPlotChart } from "../../../components/charts/UPlotChart.tsx";
 import { familyStyle } from "../lib/marker-style.ts";
-import { nearestIndex, placeMarkers, type MarkerLike, type PlacedMarker, type Range } from "../lib/viewer-math.ts";
+import { envelopeColumns, nearestIndex, placeMarkers, type MarkerLike, type PlacedMarker, type Range } from "../lib/viewer-math.ts";
 
 /** The compared capture's line: a blue no marker family uses, dashed. */
 export const OVERLAY_COLOR = "rgba(52, 84, 150, 0.9)";
 
 export interface SpectrumPlotProps {
+  /** Where each max is (a bin's frequency). */
   hz: ArrayLike<number>;
   min: ArrayLike<number>;
   max: ArrayLike<number>;
-  /** Another capture of the motor on the same x grid (nulls outside its range). */
+  /** Where each min is, when it is not at hz (a decimated answer). */
+  minHz?: ArrayLike<number> | null;
+  /** Another capture of the motor on the hz grid (nulls outside its range). */
   overlay?: (number | null)[] | null;
   overlayLabel?: string;
   view: Range;
   markers: readonly MarkerLike[];
   families: ReadonlySet<string>;
   cursorHz: number | null;
+  /** The level the cursor reads (its dot); null draws the line only. */
+  cursorLevel?: number | null;
   yLabel: string;
   /** Axis tick formatter for y values. */
   yDigits?: number;
   height?: number;
   label: string;
   onSelectRange: (r: Range) => void;
+  /** A click, snapped to the highest max within ±5 px: the frequency of that max's bin. */
   onPick: (hz: number) => void;
-  onHover: (hz: number | null, idx: number | null) => void;
+  onHover: (hz: number | null) => void;
   onWheelZoom: (centerHz: number, factor: number) => void;
   /** Shift-drag or middle-drag: the view when the drag began and how far it moved, as a fraction of its width. */
   onPan: (from: Range, fraction: number) => void;
@@ -40,6 +47,7 @@ interface DrawState {
   markers: readonly MarkerLike[];
   families: ReadonlySet<string>;
   cursorHz: number | null;
+  cursorLevel: number | null;
   /** Pointer x over the plot, CSS px from the plot's left edge; null when away. */
   pointerX: number | null;
   /** What the last draw placed (canvas px), to tell which hidden labels are under the pointer. */
@@ -54,30 +62,33 @@ const MERGE_PX = 8;
 const HOVER_PX = 6;
 
 export function SpectrumPlot(props: SpectrumPlotProps) {
-  const { hz, min, max, overlay, view, markers, families, cursorHz, yLabel, yDigits = 0, height = 360, label } = props;
+  const { hz, min, max, minHz, overlay, view, markers, families, cursorHz, yLabel, yDigits = 0, height = 360, label } = props;
+  const cursorLevel = props.cursorLevel ?? null;
   const cb = useRef(props);
   cb.current = props;
-  const drawState = useRef<DrawState>({ markers, families, cursorHz, pointerX: null, placed: [], hoverKey: "" });
-  Object.assign(drawState.current, { markers, families, cursorHz });
+  const drawState = useRef<DrawState>({ markers, families, cursorHz, cursorLevel, pointerX: null, placed: [], hoverKey: "" });
+  Object.assign(drawState.current, { markers, families, cursorHz, cursorLevel });
   const plotRef = useRef<uPlot | null>(null);
   const hasOverlay = !!overlay;
 
   const data = useMemo<uPlot.AlignedData>(() => {
-    const x = hz as number[];
-    const cols: (ArrayLike<number> | (number | null)[])[] = [x, max, min];
-    if (overlay) cols.push(overlay);
+    // max and min each at their own bin: one x array for both, the other's points null (spanned)
+    const c = envelopeColumns(hz, max, min, minHz, overlay ?? null);
+    const cols: (number | null)[][] = [c.x, c.max, c.min];
+    if (c.overlay) cols.push(c.overlay);
     return cols as uPlot.AlignedData;
-  }, [hz, min, max, overlay]);
+  }, [hz, min, max, minHz, overlay]);
 
   const options = useMemo<Omit<uPlot.Options, "width" | "height">>(() => {
     const line = themeColor("brand-strong", "#084c4e");
     const band = "rgba(13, 106, 108, 0.18)";
     const series: uPlot.Series[] = [
       {},
-      { label: "max", stroke: line, width: 1, points: { show: false } },
-      { label: "min", stroke: "rgba(13, 106, 108, 0.45)", width: 1, points: { show: false } },
+      { label: "max", stroke: line, width: 1, points: { show: false }, spanGaps: true },
+      { label: "min", stroke: "rgba(13, 106, 108, 0.45)", width: 1, points: { show: false }, spanGaps: true },
     ];
-    if (hasOverlay) series.push({ label: "compared", stroke: OVERLAY_COLOR, width: 1, dash: [4, 2], points: { show: false }, spanGaps: false });
+    // nulls: at the min-only points (spanned) and outside the compared capture's range (nothing to span there)
+    if (hasOverlay) series.push({ label: "compared", stroke: OVERLAY_COLOR, width: 1, dash: [4, 2], points: { show: false }, spanGaps: true });
     return {
       pxAlign: false,
       legend: { show: false },
@@ -125,8 +136,8 @@ export function SpectrumPlot(props: SpectrumPlotProps) {
             const left = u.cursor.left;
             const ds = drawState.current;
             ds.pointerX = left == null || left < 0 ? null : left;
-            if (left == null || left < 0) cb.current.onHover(null, null);
-            else cb.current.onHover(u.posToVal(left, "x"), u.cursor.idx ?? null);
+            if (left == null || left < 0) cb.current.onHover(null);
+            else cb.current.onHover(u.posToVal(left, "x"));
             if (hoverKey(u, ds) !== ds.hoverKey) u.redraw(false);
           },
         ],
@@ -193,7 +204,7 @@ export function SpectrumPlot(props: SpectrumPlotProps) {
       data={data}
       height={height}
       keepScales
-      redrawKey={`${cursorHz}|${[...families].join()}|${markers.length}`}
+      redrawKey={`${cursorHz}|${cursorLevel}|${[...families].join()}|${markers.length}`}
       onReady={(u) => {
         plotRef.current = u;
         u.setScale("x", { min: cb.current.view.min, max: cb.current.view.max });
@@ -203,15 +214,23 @@ export function SpectrumPlot(props: SpectrumPlotProps) {
   );
 }
 
-/** The highest sample within ±5 CSS px of a click: clicks land on the line, not beside it. */
+/**
+ * The highest max within ±5 CSS px of a click: clicks land on the line, not beside it, and at the frequency of the
+ * line's bin (each max sits at its own bin).
+ */
 function snapToPeak(u: uPlot, offsetX: number): number {
   const xs = u.data[0] as ArrayLike<number>;
-  const ys = u.data[1] as ArrayLike<number | null>;
+  const ys = u.data[1] as ArrayLike<number | null | undefined>;
   const lo = nearestIndex(xs, u.posToVal(offsetX - 5, "x"));
   const hi = nearestIndex(xs, u.posToVal(offsetX + 5, "x"));
-  let best = nearestIndex(xs, u.posToVal(offsetX, "x"));
-  if (best < 0) return u.posToVal(offsetX, "x");
-  for (let i = lo; i <= hi; i++) if ((ys[i] ?? -Infinity) > (ys[best] ?? -Infinity)) best = i;
+  let best = -1;
+  for (let i = Math.max(0, lo); i <= hi; i++) if (ys[i] != null && (best < 0 || ys[i]! > ys[best]!)) best = i;
+  if (best < 0) {
+    // no max under the click (a min-only point at most): the nearest max
+    const at = u.posToVal(offsetX, "x");
+    for (let i = 0; i < xs.length; i++) if (ys[i] != null && (best < 0 || Math.abs(xs[i] - at) < Math.abs(xs[best] - at))) best = i;
+    if (best < 0) return at;
+  }
   return xs[best];
 }
 
@@ -306,10 +325,8 @@ function drawOverlays(u: uPlot, s: DrawState) {
     ctx.moveTo(x, bbox.top);
     ctx.lineTo(x, bbox.top + bbox.height);
     ctx.stroke();
-    const xs = u.data[0] as ArrayLike<number>;
-    const i = nearestIndex(xs, s.cursorHz);
-    const y = i >= 0 ? (u.data[1][i] as number | null) : null;
-    if (y != null) {
+    const y = s.cursorLevel;
+    if (y != null && Number.isFinite(y)) {
       const py = u.valToPos(y, "y", true);
       ctx.fillStyle = themeColor("brand", "#0d6a6c");
       ctx.beginPath();

@@ -8,19 +8,19 @@ import { errorMessage } from "../../../lib/api.ts";
 import type { Capture } from "../../../lib/contracts.ts";
 import { formatDateTime } from "../../../lib/format.ts";
 import type { Marker } from "../../../engine/types.ts";
-import { useSpectrum } from "../api/get-spectrum.ts";
+import { useSpectrum, type SpectrumResponse } from "../api/get-spectrum.ts";
+import { hzDecimals, markerToleranceHz, resolveCursor, type BinPoints, type CursorTarget, type ResolvedCursor } from "../lib/cursor-resolve.ts";
 import { familyForKey, familyStyle, MARKER_FAMILIES } from "../lib/marker-style.ts";
+import { hannSidelobeDb, nextTarget, stepTargets } from "../lib/peak-steps.ts";
 import { useSettled } from "../lib/use-settled.ts";
 import {
   cursorReadout,
-  findPeaks,
   markersForChannel,
   minMaxDecimate,
   nearestIndex,
   panRange,
   resampleOnto,
   signed,
-  stepPeak,
   supplyWindow,
   zoomRange,
   type Range,
@@ -67,8 +67,10 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   const [view, settled, changeView] = useSettled<Range>(initialView, 150);
   const setView = (next: Range | ((v: Range) => Range)) => changeView(next, "now");
   const setViewGesture = (next: Range | ((v: Range) => Range)) => changeView(next, "debounced");
-  const [cursorHz, setCursorHz] = useState<number | null>(null);
-  const [hover, setHover] = useState<{ hz: number; idx: number | null } | null>(null);
+  // What the cursor is on (a peak the click snapped to or a key stepped to, or a marker); what it reads follows
+  // from the data (resolveCursor), the full-resolution window around it included.
+  const [cursorTarget, setCursorTarget] = useState<CursorTarget<Marker> | null>(null);
+  const [hoverHz, setHoverHz] = useState<number | null>(null);
   const [families, setFamilies] = useState<Set<string>>(
     () => new Set(kind === "vibration" ? ["vibration", "bearing"] : ["supply", "broken-bar", "eccentricity", "slot", "harmonic"]),
   );
@@ -94,33 +96,61 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   const s = spectrum.data;
   const shown = useMemo(() => {
     if (!s) return null;
-    // The server answers ≤ buckets points; re-bucket defensively so uPlot never gets more than a few thousand.
-    if (s.hz.length <= MAX_POINTS) return { x: s.hz, min: s.min, max: s.max };
+    // The server answers ≤ buckets points, each max at its own bin; re-bucket defensively (keeping each max at its
+    // bin) so uPlot never gets more than a few thousand.
+    if (s.hz.length <= MAX_POINTS) return { x: s.hz, min: s.min, max: s.max, minHz: s.minHz, decimated: s.decimated };
     const d = minMaxDecimate(s.hz, s.min, s.max, MAX_POINTS);
-    return { x: Array.from(d.x), min: Array.from(d.min), max: Array.from(d.max) };
+    return { x: Array.from(d.x), min: Array.from(d.min), max: Array.from(d.max), minHz: null, decimated: true };
   }, [s]);
   const overlayOnGrid = useMemo(() => (shown && overlay.data ? resampleOnto(shown.x, overlay.data.hz, overlay.data.max) : null), [shown, overlay.data]);
 
   const isCurrent = kind === "current";
   const peakValues = useMemo(() => (shown ? (isCurrent ? shown.max : shown.max.map((v) => 20 * Math.log10(Math.max(v, 1e-6)))) : []), [shown, isCurrent]);
-  // Peaks worth stepping to: at least 10 dB of topographic prominence (window side lobes and noise have less).
-  const peaks = useMemo(() => findPeaks(peakValues, { prominence: 10, halfWidth: 400 }), [peakValues]);
 
   // The engine tags markers with the channel it measured them on; the frequencies hold for every phase / axis, so
   // a channel without its own markers of a family shows those of the analysed one (and says so).
   const { channelMarkers, markerSource, partly } = useMemo(() => markersForChannel(markers, channel, channels.map((c) => c.name)), [markers, channel, channels]);
   const presentFamilies = MARKER_FAMILIES.filter((f) => markers.some((m) => m.family === f.family));
+  const ctx = useMemo(() => (s ? { binHz: s.binHz, resolutionHz: s.resolutionHz, bucketHz: s.bucketHz, markers: channelMarkers } : null), [s, channelMarkers]);
 
-  const levelAt = (hz: number): number | null => {
-    if (!shown) return null;
-    const i = nearestIndex(shown.x, hz);
-    return i >= 0 ? shown.max[i] : null;
-  };
-  const cursor = cursorHz !== null ? cursorReadout(cursorHz, levelAt(cursorHz), supplyHz, slip) : null;
-  const pointer = hover ? cursorReadout(hover.hz, hover.idx !== null && shown ? (shown.max[hover.idx] ?? null) : levelAt(hover.hz), supplyHz, slip) : null;
+  // Where ← / → step: lines clearly above the local noise floor (not its bumps, not a stronger line's Hann side
+  // lobes on a current spectrum) and every shown marker in the answer's range (peak-steps.ts).
+  const targets = useMemo(() => {
+    if (!shown || !s || !ctx) return [];
+    const shownMarkers = channelMarkers.filter((m) => families.has(m.family));
+    return stepTargets(shown.x, peakValues, shownMarkers, {
+      tolHz: markerToleranceHz(ctx),
+      range: { min: s.fMin, max: s.fMax },
+      leakage: isCurrent ? { resolutionHz: s.resolutionHz, envelopeDb: hannSidelobeDb } : null,
+    });
+  }, [shown, s, ctx, peakValues, channelMarkers, families, isCurrent]);
+
+  // A view that does not hold the cursor's bins (decimated, or panned away): fetch the full-resolution window of
+  // ±32 bins around it (the route answers every bin when the range holds ≤ buckets of them).
+  const windowParams = useMemo(() => {
+    if (!cursorTarget || !s) return null;
+    const hz = cursorTarget.hz;
+    if (!s.decimated && hz >= s.fMin && hz <= s.fMax) return null;
+    const half = 32 * s.binHz;
+    return { channel, kind, fmin: round(Math.max(0, hz - half)), fmax: round(hz + half), buckets };
+  }, [cursorTarget, s, channel, kind, buckets]);
+  const cursorWindow = useSpectrum(captureId, windowParams);
+  const windowBins = usable(cursorWindow.data, cursorWindow.isPlaceholderData, channel);
+
+  const viewBins: BinPoints | null = shown ? { x: shown.x, max: shown.max, decimated: shown.decimated } : null;
+  const resolved: ResolvedCursor<Marker> | null = cursorTarget && ctx ? resolveCursor(cursorTarget, [windowBins, viewBins], viewBins, ctx) : null;
+  const cursorHz = resolved?.hz ?? null;
+  const cursor = resolved ? cursorReadout(resolved.hz, resolved.level, supplyHz, slip, 20, resolved.precisionHz) : null;
+  // The pointer reads the drawn point nearest to it: a bin's frequency and level (its bucket's max when decimated).
+  const pointer = useMemo(() => {
+    if (hoverHz === null || !shown || !s) return null;
+    const i = nearestIndex(shown.x, hoverHz);
+    return i >= 0 ? cursorReadout(shown.x[i], shown.max[i], supplyHz, slip, 20, s.binHz) : null;
+  }, [hoverHz, shown, s, supplyHz, slip]);
 
   const unit = s?.unit ?? (isCurrent ? "dB" : "mm/s");
-  const hzDigits = s ? Math.max(2, Math.min(4, Math.ceil(-Math.log10(Math.max(s.resolutionHz, 1e-6))) + 1)) : 2;
+  // the view's bounds: a position, not a reading
+  const rangeDigits = s ? Math.max(2, Math.min(4, Math.ceil(-Math.log10(Math.max(s.resolutionHz, 1e-6))) + 1)) : 2;
   const fr = rpm ? rpm / 60 : null;
 
   const toggleFamily = (family: string) =>
@@ -131,22 +161,24 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
       return next;
     });
 
-  const moveTo = (hz: number) => {
-    setCursorHz(hz);
+  const moveTo = (target: CursorTarget<Marker>) => {
+    setCursorTarget(target);
+    const hz = target.hz;
     if (hz < view.min || hz > view.max) setView((v) => panRange(v, (hz - (v.min + v.max) / 2) / (v.max - v.min), bounds));
   };
 
   const step = (dir: 1 | -1) => {
-    if (!shown) return;
+    if (!shown || !ctx) return;
     const from = cursorHz ?? (supplyHz && supplyHz > view.min && supplyHz < view.max ? supplyHz : dir > 0 ? view.min : view.max);
-    // Half a bin of tolerance: starting on a peak (e.g. the supply line) moves on to the next one.
-    const i = stepPeak(shown.x, peaks, from, dir, (s?.resolutionHz ?? 0) / 2 + 1e-9);
-    if (i === null) {
+    // One resolution cell of tolerance: starting on a line (e.g. the supply, read at its marker while its bin is a
+    // little off) moves on to the next one.
+    const t = nextTarget(targets, from, dir, markerToleranceHz(ctx) + 1e-9);
+    if (t === null) {
       setNote(dir > 0 ? "No further peak to the right in this view." : "No further peak to the left in this view.");
       return;
     }
     setNote(null);
-    moveTo(shown.x[i]);
+    moveTo(t.marker ? { at: "marker", hz: t.marker.hz, marker: t.marker } : { at: "peak", hz: t.hz });
   };
 
   const minSpan = Math.max(0.05, (s?.resolutionHz ?? 0.01) * 20);
@@ -167,7 +199,7 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
     else if (k === "-" || k === "_") zoom(2);
     else if (k === "a" && isCurrent) setView(initialView);
     else if (k === "f") setView(bounds);
-    else if (k === "Escape") setCursorHz(null);
+    else if (k === "Escape") setCursorTarget(null);
     else if (k === "?") setShowHelp((x) => !x);
     else {
       const fam = familyForKey(k);
@@ -237,7 +269,7 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
           ▶
         </Button>
         <span className="num text-caption text-ink-muted" aria-live="polite">
-          {view.min.toFixed(hzDigits)} – {view.max.toFixed(hzDigits)} Hz
+          {view.min.toFixed(rangeDigits)} – {view.max.toFixed(rangeDigits)} Hz
         </span>
         <span className="ml-auto flex items-center gap-2">
           {earlier.length > 0 && (
@@ -265,11 +297,13 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
             hz={shown.x}
             min={shown.min}
             max={shown.max}
+            minHz={shown.minHz}
             overlay={overlayOnGrid}
             view={view}
             markers={channelMarkers}
             families={families}
             cursorHz={cursorHz}
+            cursorLevel={resolved?.level ?? null}
             yLabel={yLabel}
             yDigits={isCurrent ? 0 : 2}
             label={`${title}, ${channel}, ${view.min.toFixed(1)} to ${view.max.toFixed(1)} Hz`}
@@ -277,9 +311,9 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
             onPan={(from, fraction) => setViewGesture(panRange(from, fraction, bounds))}
             onPick={(hz) => {
               setNote(null);
-              setCursorHz(hz);
+              setCursorTarget({ at: "peak", hz });
             }}
-            onHover={(hz, idx) => setHover(hz === null ? null : { hz, idx })}
+            onHover={setHoverHz}
             onWheelZoom={(c, f) => setViewGesture((v) => zoomTo(v, f, c))}
           />
         ) : spectrum.isError ? (
@@ -298,15 +332,21 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
 
       <div className="mt-2 flex flex-wrap items-start gap-x-6 gap-y-2">
         <div className="min-w-[18rem] flex-1">
-          <Readout title="Cursor" r={cursor} unit={unit} hzDigits={hzDigits} isCurrent={isCurrent} fr={fr} supplyHz={supplyHz} />
-          <Readout title="Pointer" r={pointer} unit={unit} hzDigits={hzDigits} isCurrent={isCurrent} fr={fr} supplyHz={supplyHz} faint />
+          <Readout title="Cursor" r={cursor} at={resolved} pending={cursorWindow.isFetching} unit={unit} isCurrent={isCurrent} fr={fr} s={s ?? null} />
+          <Readout title="Pointer" r={pointer} unit={unit} isCurrent={isCurrent} fr={fr} s={s ?? null} faint />
           {note && <p className="text-caption text-ink-muted">{note}</p>}
         </div>
         <div className="text-caption text-ink-muted">
           {s && (
             <>
               Resolution <span className="num text-ink">{s.resolutionHz.toPrecision(3)} Hz</span> ·{" "}
-              {s.decimated ? <>min/max of {s.hz.length} buckets (zoom in for every bin)</> : <>every bin shown ({s.hz.length})</>}
+              {s.decimated ? (
+                <>
+                  min/max of {s.hz.length} buckets (<span className="num">{fmtHz(s.bucketHz ?? 0)}</span> each; zoom in for every bin)
+                </>
+              ) : (
+                <>every bin shown ({s.hz.length})</>
+              )}
               {s.lowCutHz ? (
                 <>
                   <br />
@@ -351,17 +391,29 @@ export function SpectrumViewer(props: SpectrumViewerProps) {
   );
 }
 
+/** Where the readout's frequency comes from, and so how many decimals it has. */
+function sourceNote(at: ResolvedCursor<Marker> | null | undefined, s: SpectrumResponse | null): string {
+  if (!s) return "";
+  if (at?.source === "marker") return `The engine's line ${at.marker?.name ?? ""}: its frequency interpolated between bins (to about ${fmtHz(at.precisionHz)})`;
+  if (at?.source === "bucket") return `Somewhere in a bucket of ${fmtHz(at.precisionHz)}: zoom in for the bin`;
+  return `The bin's frequency (bins ${fmtHz(s.binHz)} apart)`;
+}
+
 function Readout(props: {
   title: string;
   r: ReturnType<typeof cursorReadout> | null;
+  /** The resolved cursor (for the cursor readout): where the frequency comes from. */
+  at?: ResolvedCursor<Marker> | null;
+  /** The full-resolution window around the cursor is on its way (a level not known yet shows "…"). */
+  pending?: boolean;
   unit: string;
-  hzDigits: number;
   isCurrent: boolean;
   fr: number | null;
-  supplyHz: number | null;
+  s: SpectrumResponse | null;
   faint?: boolean;
 }) {
-  const { title, r, unit, hzDigits, isCurrent, fr, faint } = props;
+  const { title, r, at, pending, unit, isCurrent, fr, faint, s } = props;
+  const hzDigits = r?.hzDigits ?? 2;
   return (
     <div className={`flex items-baseline gap-x-4 text-body ${faint ? "text-ink-muted" : ""}`} aria-live={faint ? undefined : "polite"}>
       <span className="w-14 shrink-0 text-caption font-semibold uppercase tracking-wide text-ink-muted">{title}</span>
@@ -369,8 +421,15 @@ function Readout(props: {
       <div className="flex min-w-0 flex-wrap items-baseline gap-x-4 whitespace-nowrap">
       {r ? (
         <>
-          <span className="num">{r.hz.toFixed(hzDigits)} Hz</span>
-          <span className="num">{r.level === null ? "—" : `${fmtSigned(r.level, isCurrent ? 1 : 3)} ${unit}`}</span>
+          <span className="num" title={sourceNote(at, s)}>
+            {r.hz.toFixed(hzDigits)} Hz
+          </span>
+          <span className="num">{r.level === null ? (pending ? "…" : "—") : `${fmtSigned(r.level, isCurrent ? 1 : 3)} ${unit}`}</span>
+          {at?.marker && (
+            <span className="text-caption text-ink-muted" title="The engine's line the cursor is on">
+              {at.marker.name}
+            </span>
+          )}
           {isCurrent ? (
             <>
               <span className="num" title="Offset from the supply line">
@@ -379,12 +438,16 @@ function Readout(props: {
               <span className="num" title="Offset in multiples of the slip frequency s·f">
                 {r.label}
               </span>
-              {r.supplyOrder !== null && <span className="num text-ink-muted">{r.supplyOrder.toFixed(3)}× f</span>}
+              {r.supplyOrder !== null && <span className="num text-ink-muted">{r.supplyOrder.toFixed(r.orderDigits)}× f</span>}
             </>
           ) : (
             <>
-              {fr && <span className="num" title="Multiple of the running speed">{(r.hz / fr).toFixed(3)}× fr</span>}
-              {r.supplyOrder !== null && <span className="num text-ink-muted">{r.supplyOrder.toFixed(3)}× LF</span>}
+              {fr && (
+                <span className="num" title="Multiple of the running speed">
+                  {(r.hz / fr).toFixed(r.precisionHz === null ? 3 : hzDecimals(r.precisionHz / fr, 3))}× fr
+                </span>
+              )}
+              {r.supplyOrder !== null && <span className="num text-ink-muted">{r.supplyOrder.toFixed(r.orderDigits)}× LF</span>}
             </>
           )}
         </>
@@ -398,7 +461,7 @@ function Readout(props: {
 
 function KeyHelp({ isCurrent, families }: { isCurrent: boolean; families: string[] }) {
   const rows: [string, string][] = [
-    ["← / →", "Step the cursor to the previous / next peak"],
+    ["← / →", "Step the cursor to the previous / next peak (a line above the noise floor, or a marker)"],
     ["Shift + ← / →", "Pan a quarter of the view"],
     ["+ / −", "Zoom in / out about the cursor (or the wheel over the plot)"],
     ["drag", "Zoom to the dragged span"],
@@ -443,5 +506,17 @@ function sameRange(a: Range, b: Range): boolean {
 }
 
 function fmtSigned(x: number, digits: number): string {
-  return x.toFixed(digits).replace("-", "\u2212");
+  const t = x.toFixed(digits);
+  return Number(t) === 0 ? Math.abs(x).toFixed(digits) : t.replace("-", "\u2212"); // no "−0.0"
+}
+
+/** A width in Hz with three significant digits. */
+function fmtHz(hz: number): string {
+  return `${Number(hz.toPrecision(3))} Hz`;
+}
+
+/** A window answer for the cursor, when it is the channel's own and not a stand-in from an earlier query. */
+function usable(d: SpectrumResponse | undefined, placeholder: boolean, channel: string): BinPoints | null {
+  if (!d || placeholder || d.channel !== channel) return null;
+  return { x: d.hz, max: d.max, decimated: d.decimated };
 }

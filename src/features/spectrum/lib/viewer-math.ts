@@ -1,6 +1,7 @@
 // Pure maths of the spectrum viewer: where a marker sits on the plot, what the cursor reads, how a long
-// series is reduced for display, how the cursor steps between peaks and how the view zooms and pans.
+// series is reduced for display, which points are peaks (the steps: peak-steps.ts) and how the view zooms and pans.
 // No React, DOM or uPlot here, so the client tests exercise exactly what the screen uses.
+import { hzDecimals } from "./cursor-resolve.ts";
 
 export interface LinearScale {
   /** Value at the left edge of the plot area. */
@@ -142,6 +143,12 @@ export interface CursorReadout {
   supplyOrder: number | null;
   /** Offset written in the viewer's notation, e.g. "f − 2.00sf" or "f + 3.10 Hz". */
   label: string;
+  /** Decimals of hz and of the offset in Hz: as many as the precision of hz allows (3 when it is not given). */
+  hzDigits: number;
+  /** Decimals of the harmonic order hz / f. */
+  orderDigits: number;
+  /** How precisely hz is known, Hz (null when not given). */
+  precisionHz: number | null;
 }
 
 const MINUS = "\u2212";
@@ -153,29 +160,48 @@ export function signed(x: number, digits: number): string {
   return x < 0 ? `${MINUS}${s}` : `+${s}`;
 }
 
-/** The offset as "f ± k·sf" when slip is known, else "f ± Δ Hz". */
-export function offsetLabel(offsetHz: number | null, slipMultiple: number | null): string {
+/**
+ * The offset as "f ± k·sf" when slip is known, else "f ± Δ Hz", with `digits.multiple` decimals of k (2 unless
+ * given) and `digits.hz` of Δ (3 unless given).
+ */
+export function offsetLabel(offsetHz: number | null, slipMultiple: number | null, digits: { hz?: number; multiple?: number } = {}): string {
   if (offsetHz === null) return "—";
   if (slipMultiple !== null && Number.isFinite(slipMultiple)) {
+    const d = digits.multiple ?? 2;
     const k = Math.abs(slipMultiple);
-    if (k < 0.005) return "f";
-    return `f ${slipMultiple < 0 ? MINUS : "+"} ${k.toFixed(2)}sf`;
+    if (Number(k.toFixed(d)) === 0) return "f";
+    return `f ${slipMultiple < 0 ? MINUS : "+"} ${k.toFixed(d)}sf`;
   }
-  if (Math.abs(offsetHz) < 0.0005) return "f";
-  return `f ${offsetHz < 0 ? MINUS : "+"} ${Math.abs(offsetHz).toFixed(3)} Hz`;
+  const d = digits.hz ?? 3;
+  if (Number(Math.abs(offsetHz).toFixed(d)) === 0) return "f";
+  return `f ${offsetHz < 0 ? MINUS : "+"} ${Math.abs(offsetHz).toFixed(d)} Hz`;
 }
 
 /**
  * What the cursor reads at hz. The label uses multiples of s·f near the supply line (|k| ≤ maxMultiple, where the
  * rotor-related sidebands live) and plain hertz further out, where a multiple of s·f means nothing to an analyst.
+ * With `precisionHz` (how precisely hz is known) every number derived from hz shows only the decimals that
+ * precision allows: hz and the offset in Hz up to 4, the multiple of s·f up to 2, the order of f up to 3.
  */
-export function cursorReadout(hz: number, level: number | null, supplyHz: number | null, slip: number | null, maxMultiple = 20): CursorReadout {
+export function cursorReadout(
+  hz: number,
+  level: number | null,
+  supplyHz: number | null,
+  slip: number | null,
+  maxMultiple = 20,
+  precisionHz: number | null = null,
+): CursorReadout {
   const offsetHz = supplyHz !== null && Number.isFinite(supplyHz) ? hz - supplyHz : null;
   const slipHz = supplyHz !== null && slip !== null && slip > 0 ? slip * supplyHz : null;
   const slipMultiple = offsetHz !== null && slipHz !== null ? offsetHz / slipHz : null;
   const supplyOrder = supplyHz !== null && supplyHz > 0 ? hz / supplyHz : null;
   const near = slipMultiple !== null && Math.abs(slipMultiple) <= maxMultiple;
-  return { hz, level, offsetHz, slipHz, slipMultiple, supplyOrder, label: offsetLabel(offsetHz, near ? slipMultiple : null) };
+  const p = precisionHz;
+  const hzDigits = p === null ? 3 : hzDecimals(p, 4);
+  const multipleDigits = p === null || slipHz === null ? 2 : hzDecimals(p / slipHz, 2);
+  const orderDigits = p === null || supplyOrder === null ? 3 : hzDecimals(p / supplyHz!, 3);
+  const label = offsetLabel(offsetHz, near ? slipMultiple : null, { hz: hzDigits, multiple: multipleDigits });
+  return { hz, level, offsetHz, slipHz, slipMultiple, supplyOrder, label, hzDigits, orderDigits, precisionHz: p };
 }
 
 /** Index of the sample nearest to hz in an ascending array (binary search); -1 for an empty array. */
@@ -257,6 +283,53 @@ export function minMaxDecimate(
 }
 
 /**
+ * The plot's columns for a min/max answer whose min and max each sit at their own bin (server/spectra.ts): one
+ * ascending x array holding both (a bin that holds a bucket's min and max once), max null where only a min sits and
+ * min null where only a max sits (both drawn with spanGaps), and the overlay (given on the hz grid) carried along.
+ * Without minHz (every point one bin, min = max) the columns are the input.
+ */
+export function envelopeColumns(
+  hz: ArrayLike<number>,
+  max: ArrayLike<number>,
+  min: ArrayLike<number>,
+  minHz: ArrayLike<number> | null | undefined,
+  overlay: readonly (number | null)[] | null = null,
+): { x: number[]; max: (number | null)[]; min: (number | null)[]; overlay: (number | null)[] | null } {
+  if (!minHz || minHz.length !== hz.length) return { x: Array.from(hz), max: Array.from(max), min: Array.from(min), overlay: overlay ? [...overlay] : null };
+  const x: number[] = [];
+  const hi: (number | null)[] = [];
+  const lo: (number | null)[] = [];
+  const ov: (number | null)[] | null = overlay ? [] : null;
+  let i = 0;
+  let j = 0;
+  while (i < hz.length || j < minHz.length) {
+    const a = i < hz.length ? hz[i] : Infinity;
+    const b = j < minHz.length ? minHz[j] : Infinity;
+    if (a === b) {
+      x.push(a);
+      hi.push(max[i]);
+      lo.push(min[j]);
+      ov?.push(overlay![i]);
+      i++;
+      j++;
+    } else if (a < b) {
+      x.push(a);
+      hi.push(max[i]);
+      lo.push(null);
+      ov?.push(overlay![i]);
+      i++;
+    } else {
+      x.push(b);
+      hi.push(null);
+      lo.push(min[j]);
+      ov?.push(null);
+      j++;
+    }
+  }
+  return { x, max: hi, min: lo, overlay: ov };
+}
+
+/**
  * Puts a second series (e.g. an earlier capture) on the x grid of the first, for one uPlot x array: each
  * target point takes the highest source value between the midpoints to its neighbours, or the linearly
  * interpolated value when no source sample falls there; null outside the source's range.
@@ -326,25 +399,6 @@ export function findPeaks(y: ArrayLike<number>, opts: { prominence?: number; hal
     if (v - Math.max(leftMin, rightMin) >= prominence) peaks.push(i);
   }
   return peaks;
-}
-
-/**
- * The next peak strictly right (direction +1) or left (−1) of fromHz, as an index into x; null when there is
- * none in that direction. Peaks within `epsHz` of fromHz are skipped so repeated presses always move on.
- */
-export function stepPeak(
-  x: ArrayLike<number>,
-  peaks: readonly number[],
-  fromHz: number,
-  direction: 1 | -1,
-  epsHz = 1e-9,
-): number | null {
-  if (direction > 0) {
-    for (const p of peaks) if (x[p] > fromHz + epsHz) return p;
-    return null;
-  }
-  for (let i = peaks.length - 1; i >= 0; i--) if (x[peaks[i]] < fromHz - epsHz) return peaks[i];
-  return null;
 }
 
 // ---------------------------------------------------------------------------------------------------------
