@@ -161,7 +161,7 @@ function InspectionCard({ inspection: i, highlighted, onOpen, onComplete }: { in
 function MyCaptures() {
   const q = useQuery(myCapturesQueryOptions());
   const columns: Column<Capture>[] = [
-    { id: "motor", header: "Motor", cell: (c) => <span className="num font-medium">{c.assetTag}</span> },
+    { id: "motor", header: "Motor", cell: (c) => <span className="num whitespace-nowrap font-medium">{c.assetTag}</span> },
     { id: "when", header: "Taken", cell: (c) => <span className="num text-caption">{formatDateTime(c.takenAt ?? c.createdAt)}</span> },
     {
       id: "status",
