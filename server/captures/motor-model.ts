@@ -28,7 +28,7 @@ import {
   type NameplateForModel,
   type ParamName,
 } from "../../src/engine/motor-model/index.ts";
-import type { AssetMotorModelBody } from "../../src/shared/schemas/motor-model.ts";
+import type { AssetMotorModelBody, ModelOperatingPoint } from "../../src/shared/schemas/motor-model.ts";
 
 /** Where one circuit value came from, as the motor page names it. */
 export type ValueSource = "nameplate estimate" | "no-load test" | "locked-rotor test" | "entered";
@@ -208,25 +208,7 @@ function circuitTable(input: MotorModelInput, detail: Partial<Record<ParamName, 
   }));
 }
 
-export interface OperatingPointOut {
-  takenAt: string;
-  captureId: number;
-  analysisId: number;
-  slip: number;
-  /** Speed at this slip on the curves' frequency (the model's), for placing the point. */
-  rpm: number;
-  /** Measured supply frequency, Hz. */
-  supplyHz: number | null;
-  torqueNm: number | null;
-  /** Measured line current (A, CT ratio and channel unit applied); null when the capture has no current channel. */
-  currentA: number | null;
-  /** The model's line current at this slip, A. */
-  modelCurrentA: number | null;
-  currentRatio: number | null;
-  loadPct: number | null;
-  slipMethodLoadPct: number | null;
-  flags: ModelFlag[];
-}
+export type OperatingPointOut = ModelOperatingPoint;
 
 export async function motorModelOf(db: Knex, asset: Record<string, any>) {
   let input: MotorModelInput;

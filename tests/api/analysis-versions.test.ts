@@ -1,26 +1,15 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import request from "supertest";
 import { signedIn } from "../helpers/context.ts";
-import { captureFile, makeMotor, makePipelineEnv, startWorker, waitFor, type PipelineEnv, type WorkerProcess } from "../helpers/pipeline.ts";
+import { captureFile, makeMotor, waitFor, pipelineWithWorker } from "../helpers/pipeline.ts";
 import { ROLES } from "../../server/permissions.ts";
 
 // Analysis versions of a capture: after a nameplate fix and a re-analysis by a real worker, both versions are
 // listed (newest first, the current one marked) with the nameplate each used and their readings, and the older
 // full result can still be read.
-let env: PipelineEnv;
-let worker: WorkerProcess;
+const pipe = pipelineWithWorker();
 
-beforeAll(async () => {
-  env = await makePipelineEnv({}, { expireInSeconds: 30, retryLimit: 2, retryDelay: 1, retryBackoff: false });
-  worker = startWorker({}, env.dataDir);
-  await worker.ready;
-}, 60_000);
-afterAll(async () => {
-  await worker?.stop("SIGKILL");
-  await env?.close();
-});
-
-const statusOf = async (id: number) => (await env.db("captures").where({ id }).first("status")).status as string;
+const statusOf = async (id: number) => (await pipe.env.db("captures").where({ id }).first("status")).status as string;
 
 describe("analysis versions of a capture", () => {
   let assetId: number;
@@ -31,8 +20,8 @@ describe("analysis versions of a capture", () => {
 
   it("one version before any re-analysis: the list holds it, current, with its readings", async () => {
     // A 4-pole 50 Hz motor at 1455 rpm full load (nameplate slip 3 %); the capture runs at 3 % slip.
-    assetId = (await makeMotor(env.db, { rated_rpm: 1455 })).asset.id;
-    const tech = await signedIn(env.app, "technician");
+    assetId = (await makeMotor(pipe.env.db, { rated_rpm: 1455 })).asset.id;
+    const tech = await signedIn(pipe.env.app, "technician");
     const up = await tech
       .post("/api/captures")
       .field("assetId", String(assetId))
@@ -43,7 +32,7 @@ describe("analysis versions of a capture", () => {
     [captureId, otherCaptureId] = up.body.captures.map((c: { id: number }) => c.id);
     await waitFor(async () => (await statusOf(captureId)) === "analysed" && (await statusOf(otherCaptureId)) === "analysed", 30_000, "first analyses");
 
-    const viewer = await signedIn(env.app, "manager");
+    const viewer = await signedIn(pipe.env.app, "manager");
     const res = await viewer.get(`/api/captures/${captureId}/analyses`);
     expect(res.status).toBe(200);
     expect(res.body.items).toHaveLength(1);
@@ -61,25 +50,25 @@ describe("analysis versions of a capture", () => {
   });
 
   it("the single-version route answers the same shape as the capture detail's analysis", async () => {
-    const res = await (await signedIn(env.app, "technician")).get(`/api/captures/${captureId}/analyses/${v1Id}`);
+    const res = await (await signedIn(pipe.env.app, "technician")).get(`/api/captures/${captureId}/analyses/${v1Id}`);
     expect(res.status).toBe(200);
     expect(res.body).toEqual({ ...v1Detail, isCurrent: true });
   });
 
   it("after a nameplate fix and a re-analysis: both versions, newest first, the current flag moved, readings differ", async () => {
-    const admin = await signedIn(env.app, "admin");
+    const admin = await signedIn(pipe.env.app, "admin");
     // The nameplate's full-load speed was misread: 1440 rpm (slip 4 %), so the slip-method load changes.
     const patched = await admin.patch(`/api/assets/${assetId}`).send({ ratedRpm: 1440 });
     expect(patched.status).toBe(200);
     expect(patched.body.nameplateVersion).toBe(2);
-    const rq = await (await signedIn(env.app, "analyst")).post(`/api/assets/${assetId}/reanalyse`);
+    const rq = await (await signedIn(pipe.env.app, "analyst")).post(`/api/assets/${assetId}/reanalyse`);
     expect(rq.status).toBe(202);
     await waitFor(async () => {
-      const rows = await env.db("analyses").where({ capture_id: captureId, is_current: true }).first("version");
+      const rows = await pipe.env.db("analyses").where({ capture_id: captureId, is_current: true }).first("version");
       return rows?.version === 2 && (await statusOf(captureId)) === "analysed";
     }, 30_000, "re-analysis");
 
-    const viewer = await signedIn(env.app, "planner");
+    const viewer = await signedIn(pipe.env.app, "planner");
     const res = await viewer.get(`/api/captures/${captureId}/analyses`);
     expect(res.status).toBe(200);
     const items = res.body.items;
@@ -103,7 +92,7 @@ describe("analysis versions of a capture", () => {
   });
 
   it("the old version's full result is still there, no longer current; the new one is the detail's analysis", async () => {
-    const viewer = await signedIn(env.app, "technician");
+    const viewer = await signedIn(pipe.env.app, "technician");
     const old = await viewer.get(`/api/captures/${captureId}/analyses/${v1Id}`);
     expect(old.status).toBe(200);
     expect(old.body).toEqual({ ...v1Detail, isCurrent: false });
@@ -118,20 +107,20 @@ describe("analysis versions of a capture", () => {
   });
 
   it("404s: unknown capture, a malformed id, an analysis of another capture, an unknown analysis", async () => {
-    const viewer = await signedIn(env.app, "manager");
+    const viewer = await signedIn(pipe.env.app, "manager");
     for (const path of ["/api/captures/999999/analyses", "/api/captures/abc/analyses", "/api/captures/999999/analyses/1", `/api/captures/999999/analyses/${v1Id}`]) {
       const res = await viewer.get(path);
       expect(res.status, path).toBe(404);
       expect(res.body, path).toMatchObject({ error: "No such capture.", code: "not-found" });
     }
-    const otherV = await env.db("analyses").where({ capture_id: otherCaptureId }).first("id");
+    const otherV = await pipe.env.db("analyses").where({ capture_id: otherCaptureId }).first("id");
     for (const path of [`/api/captures/${otherCaptureId}/analyses/${v1Id}`, `/api/captures/${captureId}/analyses/${otherV.id}`, `/api/captures/${captureId}/analyses/999999`, `/api/captures/${captureId}/analyses/x`]) {
       const res = await viewer.get(path);
       expect(res.status, path).toBe(404);
       expect(res.body, path).toMatchObject({ error: "No such analysis of this capture.", code: "not-found" });
     }
     // A capture that exists but has no analysis yet: an empty list, not a 404.
-    const [bare] = await env.db("captures")
+    const [bare] = await pipe.env.db("captures")
       .insert({ asset_id: assetId, taken_at: new Date(), source: "upload", file_name: "never.csv", format: "csv", status: "received" })
       .returning("id");
     expect((await viewer.get(`/api/captures/${bare.id}/analyses`)).body).toEqual({ items: [] });
@@ -139,12 +128,12 @@ describe("analysis versions of a capture", () => {
 
   it("every role reads analyses as it reads a capture (fleet.read); no session gets 401", async () => {
     for (const role of ROLES) {
-      const agent = await signedIn(env.app, role);
+      const agent = await signedIn(pipe.env.app, role);
       expect((await agent.get(`/api/captures/${captureId}`)).status, role).toBe(200);
       expect((await agent.get(`/api/captures/${captureId}/analyses`)).status, role).toBe(200);
       expect((await agent.get(`/api/captures/${captureId}/analyses/${v1Id}`)).status, role).toBe(200);
     }
-    expect((await request(env.app).get(`/api/captures/${captureId}/analyses`)).status).toBe(401);
-    expect((await request(env.app).get(`/api/captures/${captureId}/analyses/${v1Id}`)).status).toBe(401);
+    expect((await request(pipe.env.app).get(`/api/captures/${captureId}/analyses`)).status).toBe(401);
+    expect((await request(pipe.env.app).get(`/api/captures/${captureId}/analyses/${v1Id}`)).status).toBe(401);
   });
 });

@@ -1,6 +1,6 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { signedIn } from "../helpers/context.ts";
-import { captureFile, makeMotor, makePipelineEnv, startWorker, waitFor, type PipelineEnv, type WorkerProcess } from "../helpers/pipeline.ts";
+import { captureFile, makeMotor, waitFor, pipelineWithWorker } from "../helpers/pipeline.ts";
 import { storeCapturesAndQueue } from "../../server/captures/ingest.ts";
 import { modelReading, type MotorModelInput } from "../../src/engine/motor-model/index.ts";
 
@@ -8,23 +8,12 @@ import { modelReading, type MotorModelInput } from "../../src/engine/motor-model
 // first, with each value's source; operating points at their measured current (CT ratio applied) and flagged when
 // the current is far from the model's; measured circuit values saved, the captures re-analysed with them; the test
 // readings turned into a circuit; validation, refusals by role, back to the estimate.
-let env: PipelineEnv;
-let worker: WorkerProcess;
-
-beforeAll(async () => {
-  env = await makePipelineEnv({}, { expireInSeconds: 30, retryLimit: 2, retryDelay: 1, retryBackoff: false });
-  worker = startWorker({}, env.dataDir);
-  await worker.ready;
-}, 60_000);
-afterAll(async () => {
-  await worker?.stop("SIGKILL");
-  await env?.close();
-});
+const pipe = pipelineWithWorker();
 
 const analysedAt = (ids: number[], version: number) =>
-  waitFor(async () => (await env.db("captures").whereIn("id", ids).where({ status: "analysed", analysis_version: version })).length === ids.length, 60_000, `analyses v${version}`);
+  waitFor(async () => (await pipe.env.db("captures").whereIn("id", ids).where({ status: "analysed", analysis_version: version })).length === ids.length, 60_000, `analyses v${version}`);
 const currentAnalyses = async (ids: number[]) =>
-  new Map((await env.db("analyses").whereIn("capture_id", ids).where({ is_current: true }).select("capture_id", "version", "slip", "result", "params")).map((a) => [a.capture_id as number, a]));
+  new Map((await pipe.env.db("analyses").whereIn("capture_id", ids).where({ is_current: true }).select("capture_id", "version", "slip", "result", "params")).map((a) => [a.capture_id as number, a]));
 
 describe("a motor's measured model", () => {
   let assetId: number;
@@ -33,11 +22,11 @@ describe("a motor's measured model", () => {
 
   beforeAll(async () => {
     // 11 kW, 400 V, 20 A, 1455 rpm, 4 poles, 50 Hz: the captures run at the rated slip 0.03.
-    const { asset } = await makeMotor(env.db);
+    const { asset } = await makeMotor(pipe.env.db);
     assetId = asset.id;
-    const [point] = await env.db("measurement_points").insert({ asset_id: assetId, name: "Feeder CT", kind: "current", position: "A", unit: "A", ct_ratio: 100 }).returning("id");
+    const [point] = await pipe.env.db("measurement_points").insert({ asset_id: assetId, name: "Feeder CT", kind: "current", position: "A", unit: "A", ct_ratio: 100 }).returning("id");
     const at = (d: number) => new Date(Date.UTC(2026, 10, d, 8));
-    const stored = await storeCapturesAndQueue(env.ctx, [
+    const stored = await storeCapturesAndQueue(pipe.env.ctx, [
       { assetId, takenAt: at(1), source: "upload", fileName: "normal.csv", format: "csv", bytes: captureFile({ seed: 21, currentRmsA: 20 }) },
       // Far more current than the model draws at this slip: the point must be flagged.
       { assetId, takenAt: at(2), source: "upload", fileName: "high.csv", format: "csv", bytes: captureFile({ seed: 22, currentRmsA: 45 }) },
@@ -49,7 +38,7 @@ describe("a motor's measured model", () => {
   }, 90_000);
 
   it("starts from the nameplate estimate: each value with its source and basis, the analyses carry the model's load", async () => {
-    const res = await (await signedIn(env.app, "technician")).get(`/api/assets/${assetId}/motor-model`);
+    const res = await (await signedIn(pipe.env.app, "technician")).get(`/api/assets/${assetId}/motor-model`);
     expect(res.status).toBe(200);
     expect(res.body).toMatchObject({ origin: "nameplate-estimate", measured: null, currentTolerancePct: 25 });
     estimateParams = res.body.input.params;
@@ -75,7 +64,7 @@ describe("a motor's measured model", () => {
   });
 
   it("places the operating points at their measured current (CT ratio applied) and flags the one far from the model", async () => {
-    const { operatingPoints: ops } = (await (await signedIn(env.app, "manager")).get(`/api/assets/${assetId}/motor-model`)).body;
+    const { operatingPoints: ops } = (await (await signedIn(pipe.env.app, "manager")).get(`/api/assets/${assetId}/motor-model`)).body;
     expect(ops.map((o: { captureId: number }) => o.captureId)).toEqual([ids.normal, ids.high, ids.secondary]);
     const [normal, high, secondary] = ops;
     expect(normal.currentA).toBeCloseTo(20, 0);
@@ -95,7 +84,7 @@ describe("a motor's measured model", () => {
   });
 
   it("refuses bodies it cannot use, with a message on each field", async () => {
-    const admin = await signedIn(env.app, "admin");
+    const admin = await signedIn(pipe.env.app, "admin");
     const put = (body: unknown) => admin.put(`/api/assets/${assetId}/motor-model`).send(body as object);
     const none = await put({});
     expect(none.status).toBe(400);
@@ -111,21 +100,21 @@ describe("a motor's measured model", () => {
     expect(impossible.status).toBe(422);
     expect(impossible.body.error).toMatch(/exceeds/);
     expect((await admin.put(`/api/assets/999999/motor-model`).send({ method: "circuit", r1: 0.5, x1: 1, r2: 0.4, x2: 1.5, xm: 30, rotationalLossW: 100 })).status).toBe(404);
-    expect((await env.db("assets").where({ id: assetId }).first("motor_model")).motor_model).toBeNull();
+    expect((await pipe.env.db("assets").where({ id: assetId }).first("motor_model")).motor_model).toBeNull();
   });
 
   it("lets only those who may edit motors save or clear it", async () => {
     const body = { method: "circuit", r1: 0.5, x1: 1, r2: 0.4, x2: 1.5, xm: 30, rotationalLossW: 100 };
     for (const role of ["technician", "analyst", "planner", "manager"] as const) {
-      const agent = await signedIn(env.app, role);
+      const agent = await signedIn(pipe.env.app, role);
       expect((await agent.put(`/api/assets/${assetId}/motor-model`).send(body)).status, role).toBe(403);
       expect((await agent.delete(`/api/assets/${assetId}/motor-model`)).status, role).toBe(403);
     }
-    expect((await env.db("assets").where({ id: assetId }).first("motor_model")).motor_model).toBeNull();
+    expect((await pipe.env.db("assets").where({ id: assetId }).first("motor_model")).motor_model).toBeNull();
   });
 
   it("saves measured circuit values: the source changes, and the re-analysed captures carry the measured circuit's load", async () => {
-    const admin = await signedIn(env.app, "admin");
+    const admin = await signedIn(pipe.env.app, "admin");
     // A rotor resistance 25 % above the estimate's: at the same slip the motor delivers about a fifth less.
     const p = estimateParams;
     const circuit = { r1: p.r1, x1: p.x1, r2: p.r2 * 1.25, x2: p.x2, xm: p.xm, rc: p.rc, rotationalLossW: 240 };
@@ -136,7 +125,7 @@ describe("a motor's measured model", () => {
       ["r1", "entered"], ["x1", "entered"], ["r2", "entered"], ["x2", "entered"], ["xm", "entered"], ["rc", "entered"], ["rotationalLossW", "entered"],
     ]);
     expect(res.body.input).toMatchObject({ lineVoltage: 400, frequencyHz: 50, poles: 4, connection: "star", rotationalLossW: 240 });
-    const audit = await env.db("audit_log").where({ action: "asset.motor-model.saved", subject_id: String(assetId) }).first();
+    const audit = await pipe.env.db("audit_log").where({ action: "asset.motor-model.saved", subject_id: String(assetId) }).first();
     expect(audit.details).toMatchObject({ method: "circuit", replaced: false, params: { r2: circuit.r2 } });
 
     await analysedAt(Object.values(ids), 2);
@@ -159,7 +148,7 @@ describe("a motor's measured model", () => {
   }, 90_000);
 
   it("turns no-load and locked-rotor readings into the circuit, naming the test behind each value", async () => {
-    const admin = await signedIn(env.app, "admin");
+    const admin = await signedIn(pipe.env.app, "admin");
     const body = {
       method: "tests",
       noLoad: { V: 400, I: 7.2, P: 520, f: 50 },
@@ -175,17 +164,17 @@ describe("a motor's measured model", () => {
     expect(source).toEqual({ r1: "entered", x1: "locked-rotor test", r2: "locked-rotor test", x2: "locked-rotor test", xm: "no-load test", rc: "no-load test", rotationalLossW: "no-load test" });
     expect(res.body.circuit.find((c: { name: string }) => c.name === "rc").value).toBeNull();
     expect(res.body.input.params.r1).toBe(0.55);
-    const audit = await env.db("audit_log").where({ action: "asset.motor-model.saved", subject_id: String(assetId) }).orderBy("id", "desc").first();
+    const audit = await pipe.env.db("audit_log").where({ action: "asset.motor-model.saved", subject_id: String(assetId) }).orderBy("id", "desc").first();
     expect(audit.details).toMatchObject({ method: "tests", replaced: true });
   });
 
   it("DELETE goes back to the nameplate estimate and re-analyses on request", async () => {
-    const admin = await signedIn(env.app, "admin");
+    const admin = await signedIn(pipe.env.app, "admin");
     const res = await admin.delete(`/api/assets/${assetId}/motor-model?reanalyse=1`);
     expect(res.status).toBe(200);
     expect(res.body).toEqual({ cleared: true, queued: 3 });
     expect((await admin.get(`/api/assets/${assetId}/motor-model`)).body.origin).toBe("nameplate-estimate");
-    expect(await env.db("audit_log").where({ action: "asset.motor-model.cleared", subject_id: String(assetId) }).first()).toBeTruthy();
+    expect(await pipe.env.db("audit_log").where({ action: "asset.motor-model.cleared", subject_id: String(assetId) }).first()).toBeTruthy();
     await analysedAt(Object.values(ids), 3);
     const an = await currentAnalyses(Object.values(ids));
     for (const id of Object.values(ids)) expect(an.get(id)!.result.model.source).toBe("nameplate-estimate");

@@ -1,6 +1,6 @@
 // Test helpers for the capture pipeline: an app with a blob store and job queue, a real worker process,
 // motors with unique tags, and synthetic capture files.
-import { inject } from "vitest";
+import { afterAll, beforeAll, inject } from "vitest";
 import { spawn, type ChildProcess } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
@@ -120,4 +120,25 @@ export async function waitFor<T>(fn: () => Promise<T | null | undefined | false>
     if (Date.now() > until) throw new Error(`timed out waiting for ${what}`);
     await new Promise((r) => setTimeout(r, 100));
   }
+}
+
+/**
+ * A pipeline app and one real worker process for a test file's lifetime (started before its tests, the worker
+ * killed and the app closed after). Read `.env` and `.worker` inside the tests.
+ */
+export function pipelineWithWorker(policy: Partial<JobPolicy> = { expireInSeconds: 30, retryLimit: 2, retryDelay: 1, retryBackoff: false }): {
+  readonly env: PipelineEnv;
+  readonly worker: WorkerProcess;
+} {
+  const state = {} as { env: PipelineEnv; worker: WorkerProcess };
+  beforeAll(async () => {
+    state.env = await makePipelineEnv({}, policy);
+    state.worker = startWorker({}, state.env.dataDir);
+    await state.worker.ready;
+  }, 60_000);
+  afterAll(async () => {
+    await state.worker?.stop("SIGKILL");
+    await state.env?.close();
+  });
+  return state;
 }

@@ -3,7 +3,7 @@ import { apiGet, type Paged } from "../../../lib/api.ts";
 import type { AssetDetail, Capture, CaptureDetail, Finding, Inspection } from "../../../lib/contracts.ts";
 import type { MotorCurves, KeyPoints } from "../../../engine/motor-model/index.ts";
 import type { ModelFlag, MotorModelInput } from "../../../engine/motor-model/types.ts";
-import type { AssetMotorModelBody } from "../../../shared/schemas/motor-model.ts";
+import type { AssetMotorModelBody, ModelOperatingPoint } from "../../../shared/schemas/motor-model.ts";
 import { motorKeys } from "./keys.ts";
 
 export const motorQueryOptions = (id: number) =>
@@ -50,23 +50,7 @@ export interface CircuitValue {
   basis: string;
 }
 
-/** An analysed capture on the model: measured current beside the model's, model-based load beside the slip method's. */
-export interface ModelOperatingPoint {
-  takenAt: string;
-  captureId: number;
-  analysisId: number;
-  slip: number;
-  rpm: number;
-  supplyHz: number | null;
-  torqueNm: number | null;
-  /** Measured line current, A (null without a current channel). */
-  currentA: number | null;
-  modelCurrentA: number | null;
-  currentRatio: number | null;
-  loadPct: number | null;
-  slipMethodLoadPct: number | null;
-  flags: ModelFlag[];
-}
+export type { ModelOperatingPoint };
 
 export interface MotorModelResponse {
   origin: "nameplate-estimate" | "measured";
