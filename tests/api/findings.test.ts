@@ -3,12 +3,14 @@ import pg from "pg";
 import { EVENTS_CHANNEL } from "../../server/events.ts";
 import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
 import { makeMotor } from "../helpers/pipeline.ts";
+import { analysisResult as result, writeAnalysed } from "../helpers/analysis-fixture.ts";
 import { writeAnalysisResult } from "../../server/captures/result.ts";
 import { decideFindings } from "../../server/captures/findings.ts";
 import type { AnalysisResult } from "../../src/engine/types.ts";
 
 // Findings are raised when a motor gets worse; analysts give verdicts (audited); the review queue, worst first.
 let env: TestEnv;
+const analysed = (assetId: number, takenAt: string, r: AnalysisResult) => writeAnalysed(env.db, assetId, takenAt, r);
 let listener: pg.Client;
 const verdictEvents: Record<string, unknown>[] = [];
 beforeAll(async () => {
@@ -31,32 +33,7 @@ async function until(ok: () => boolean, ms = 5000) {
   while (!ok() && Date.now() < end) await new Promise((r) => setTimeout(r, 25));
 }
 
-function result(grade: string | null, depthDb: number | null, zone: "A" | "B" | "C" | "D" | null = null, rms = 1): AnalysisResult {
-  return {
-    engineVersion: "test",
-    supplyHz: 50,
-    syncRpm: 1500,
-    slip: 0.02,
-    rpm: 1470,
-    slipEstimates: [],
-    loadPct: 80,
-    loadMethod: "slip",
-    brokenBar: {
-      lowerHz: 48, lowerDb: depthDb, upperHz: 52, upperDb: depthDb, depthDb, grade: grade as never, gradeName: grade ?? "Not assessable",
-      estimatedBrokenBars: null, assessable: grade !== null, reason: grade ? null : "light load", loadOscillationSuspected: false, confidence: 1, caveats: [],
-    },
-    vibration: zone ? { channel: "V", velocityRmsMmS: rms, bandHz: [10, 1000], zone, machineGroup: 2, support: "rigid", oneXHz: 24.5, oneXMmS: rms, twoLineHz: 100, twoLineMmS: 0.1, polePassHz: null } : null,
-    quality: [],
-    markers: [],
-  };
-}
 
-/** A capture row and its analysis written through the same code the worker uses. */
-async function analysed(assetId: number, takenAt: string, r: AnalysisResult) {
-  const [cap] = await env.db("captures").insert({ asset_id: assetId, taken_at: takenAt, source: "upload", file_name: "x.csv", format: "csv", status: "analysing" }).returning("id");
-  const out = await writeAnalysisResult(env.db, { captureId: cap.id, version: 1, engineVersion: "test", nameplateVersion: 1, params: {}, result: r, meta: {} });
-  return { captureId: cap.id as number, ...out };
-}
 
 describe("finding rules", () => {
   it("raises on a worse grade or zone, and on a first analysis at Watch / zone C or worse", () => {

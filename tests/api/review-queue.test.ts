@@ -1,43 +1,20 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { makeTestEnv, signedIn, type TestEnv } from "../helpers/context.ts";
 import { makeMotor } from "../helpers/pipeline.ts";
-import { writeAnalysisResult } from "../../server/captures/result.ts";
+import { analysisResult as result, writeAnalysed } from "../helpers/analysis-fixture.ts";
 import type { AnalysisResult } from "../../src/engine/types.ts";
 
 // The review queue's waiting clock (GET /review, raisedAt; server/reports/review-counts.ts): it counts only findings
 // still without a verdict. With status=all a capture whose findings all have verdicts shows no clock, and one with a
 // verdict on one finding waits since its other, open finding was raised. Each finding's verdicts come with it.
 let env: TestEnv;
+const analysed = (assetId: number, takenAt: string, r: AnalysisResult) => writeAnalysed(env.db, assetId, takenAt, r);
 beforeAll(async () => {
   env = await makeTestEnv();
 });
 afterAll(async () => env?.close());
 
-function result(grade: string, depthDb: number, zone: "A" | "B" | "C" | "D" | null, rms = 1): AnalysisResult {
-  return {
-    engineVersion: "test",
-    supplyHz: 50,
-    syncRpm: 1500,
-    slip: 0.02,
-    rpm: 1470,
-    slipEstimates: [],
-    loadPct: 80,
-    loadMethod: "slip",
-    brokenBar: {
-      lowerHz: 48, lowerDb: depthDb, upperHz: 52, upperDb: depthDb, depthDb, grade: grade as never, gradeName: grade,
-      estimatedBrokenBars: null, assessable: true, reason: null, loadOscillationSuspected: false, confidence: 1, caveats: [],
-    },
-    vibration: zone ? { channel: "V", velocityRmsMmS: rms, bandHz: [10, 1000], zone, machineGroup: 2, support: "rigid", oneXHz: 24.5, oneXMmS: rms, twoLineHz: 100, twoLineMmS: 0.1, polePassHz: null } : null,
-    quality: [],
-    markers: [],
-  };
-}
 
-async function analysed(assetId: number, takenAt: string, r: AnalysisResult) {
-  const [cap] = await env.db("captures").insert({ asset_id: assetId, taken_at: takenAt, source: "upload", file_name: "x.csv", format: "csv", status: "analysing" }).returning("id");
-  const out = await writeAnalysisResult(env.db, { captureId: cap.id, version: 1, engineVersion: "test", nameplateVersion: 1, params: {}, result: r, meta: {} });
-  return { captureId: cap.id as number, findings: out.findings };
-}
 
 interface Item {
   captureId: number;

@@ -18,18 +18,11 @@ import {
 } from "../../src/engine/motor-model/index.ts";
 import { deepBarWeights, rotorAtSlip, skinEffectFactors } from "../../src/engine/motor-model/circuit.ts";
 import { torqueSlipProperties } from "../helpers/torque-properties.ts";
+import { chapman } from "../helpers/chapman.ts"; // Chapman, Electric Machinery Fundamentals 4th ed., Ex. 7-5
 
 const within = (actual: number, expected: number, relTol: number) =>
   expect(Math.abs(actual - expected) / Math.abs(expected), `${actual} vs ${expected} (±${relTol * 100} %)`).toBeLessThanOrEqual(relTol);
 
-const chapman: MotorModelInput = {
-  lineVoltage: 460,
-  frequencyHz: 60,
-  poles: 4,
-  connection: "star",
-  params: { r1: 0.641, x1: 1.106, r2: 0.332, x2: 0.464, xm: 26.3 },
-  rotationalLossW: 1100,
-};
 
 const torqueAt = (rpm: number, kw: number) => (kw * 1000) / ((2 * Math.PI * rpm) / 60);
 

@@ -26,21 +26,13 @@ import {
 import { analyzeCapture } from "../../src/engine/analyze.ts";
 import { synthCapture } from "../../src/engine/synth.ts";
 import { syncRpm } from "../../src/engine/formulas.ts";
+import { chapman } from "../helpers/chapman.ts"; // Chapman, Electric Machinery Fundamentals 4th ed., Ex. 7-5
 
 const within = (actual: number | null, expected: number, relTol: number) => {
   expect(actual).not.toBeNull();
   expect(Math.abs((actual as number) - expected) / Math.abs(expected), `${actual} vs ${expected} (±${relTol * 100} %)`).toBeLessThanOrEqual(relTol);
 };
 
-/** Chapman Ex. 7-5: 460 V, 25 hp, 60 Hz, 4-pole, Y; R1 0.641, R2 0.332, X1 1.106, X2 0.464, Xm 26.3 Ω; 1100 W rotational. */
-const chapman: MotorModelInput = {
-  lineVoltage: 460,
-  frequencyHz: 60,
-  poles: 4,
-  connection: "star",
-  params: { r1: 0.641, x1: 1.106, r2: 0.332, x2: 0.464, xm: 26.3 },
-  rotationalLossW: 1100,
-};
 const chapmanModel: ModelForReading = { input: chapman, source: "measured", ratedOutputW: 25 * 745.7 };
 
 /** The 11 kW test motor of the API tests: 400 V, 20 A, 1455 rpm, 4 poles, 50 Hz (design B assumed). */

@@ -21,16 +21,8 @@ import {
 import { rpmFromSlip, slipFromRpm, syncRpm } from "../../src/engine/formulas.ts";
 import { bisect, brentRoot } from "../../src/engine/motor-model/search.ts";
 import { motoringSlip, torqueSlipProperties } from "../helpers/torque-properties.ts";
+import { chapman } from "../helpers/chapman.ts"; // Chapman, Electric Machinery Fundamentals 4th ed., Ex. 7-5
 
-/** Chapman Ex. 7-5 inputs: 460 V, 25 hp, 60 Hz, 4-pole, Y; rotational losses 1100 W (core loss lumped in). */
-const chapman: MotorModelInput = {
-  lineVoltage: 460,
-  frequencyHz: 60,
-  poles: 4,
-  connection: "star",
-  params: { r1: 0.641, x1: 1.106, r2: 0.332, x2: 0.464, xm: 26.3 },
-  rotationalLossW: 1100,
-};
 const withR2 = (input: MotorModelInput, r2: number): MotorModelInput => ({ ...input, params: { ...input.params, r2 } });
 
 const within = (actual: number, expected: number, relTol: number) =>
