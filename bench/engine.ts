@@ -88,6 +88,21 @@ export function timeFftJs(size: number): number {
   return Math.min(...batches);
 }
 
+/**
+ * fft.js against numpy for one length, as `pairs` back-to-back pairs (numpy, then fft.js) with the median ratio:
+ * one pair swings by ±20 % on a shared machine (seen 1.5–2.3× at 2^20), the median of five much less.
+ */
+export function pairedFftRatio(size: number, pairs = 5): { ratios: number[]; median: number } | null {
+  const ratios: number[] = [];
+  for (let k = 0; k < pairs; k++) {
+    const np = timeNumpy([size])?.get(size);
+    if (np === undefined) return null;
+    ratios.push(timeFftJs(size) / np);
+  }
+  const sorted = [...ratios].sort((a, b) => a - b);
+  return { ratios, median: sorted[Math.floor(sorted.length / 2)] };
+}
+
 /** numpy.fft.rfft time per call (ms) for each size, or null without python3/numpy. */
 export function timeNumpy(sizes: number[]): Map<number, number> | null {
   const code = [

@@ -4,7 +4,7 @@
 import { existsSync } from "node:fs";
 import { fileURLToPath } from "node:url";
 import { dirname, join } from "node:path";
-import { bearingCase, benchCapture, measurePeakMemory, targetCase, timeAnalysis, timeFftJs, timeNumpy } from "./engine.ts";
+import { bearingCase, benchCapture, measurePeakMemory, pairedFftRatio, targetCase, timeAnalysis, timeFftJs, timeNumpy } from "./engine.ts";
 import { realFft, nextPow2 } from "../src/engine/fft.ts";
 
 const here = dirname(fileURLToPath(import.meta.url));
@@ -100,8 +100,9 @@ async function main(): Promise<void> {
   const verdict = (ok: boolean | null) => (ok === null ? "not measured" : ok ? "met" : "NOT met");
   console.log("\n== Targets ==");
   console.log(`3 ch × 10 kHz × 20 s analysed in ≤ 150 ms        ${verdict(targetMs <= 150)} (${targetMs.toFixed(1)} ms)`);
+  const paired = ratio20 ? pairedFftRatio(2 ** 20) : null;
   console.log(
-    `2^20 real FFT within 2× numpy rfft               ${ratio20 ? `${verdict(ratio20.raw <= 2)} (fft.js ${ratio20.raw.toFixed(2)}×; the engine's wrapper, with packing, ${ratio20.wrapper.toFixed(2)}×)` : verdict(null)}`,
+    `2^20 real FFT within 2× numpy rfft               ${paired && ratio20 ? `${verdict(paired.median <= 2)} (fft.js median ${paired.median.toFixed(2)}× of 5 pairs: ${paired.ratios.map((r) => r.toFixed(2)).join(", ")}; the table's single pair ${ratio20.raw.toFixed(2)}×, the engine's wrapper there ${ratio20.wrapper.toFixed(2)}×)` : verdict(null)}`,
   );
   console.log(`numeric CSV parsed at ≥ 200 MB/s                 ${verdict(csvMbPerS === null ? null : csvMbPerS >= 200)}${csvMbPerS === null ? "" : ` (${csvMbPerS} MB/s)`}`);
   console.log(`peak memory ≤ 10× the capture in Float32 (worst) ${verdict(worstMemRatio ? worstMemRatio <= 10 : null)}${worstMemRatio ? ` (${worstMemRatio.toFixed(1)}×)` : ""}`);
