@@ -1,7 +1,5 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import pg from "pg";
-import { inject } from "vitest";
-import { captureFile, makeMotor, makePipelineEnv, waitFor, type PipelineEnv } from "../helpers/pipeline.ts";
+import { describe, expect, it } from "vitest";
+import { captureFile, makeMotor, pipelineWithoutWorker, waitFor } from "../helpers/pipeline.ts";
 import { storeCaptureAndQueue } from "../../server/captures/ingest.ts";
 import { runAnalysisJob, type JobDeps } from "../../server/captures/analysis-job.ts";
 import { blobStoreOf } from "../../server/blob/index.ts";
@@ -13,28 +11,13 @@ import analysisTask from "../../workers/analysis-task.ts";
 // analysed, or ends failed with the reason after the last attempt. The job runs here as workers/worker.ts runs it
 // (fetch with metadata, runAnalysisJob, complete or fail), in this process, so the thread's work can be replaced
 // through JobDeps.runTask, the dependency the worker itself injects.
-let env: PipelineEnv;
-let listener: pg.Client;
-const events: { event: string; payload: Record<string, unknown> }[] = [];
 const RETRY_LIMIT = 2; // three attempts in all
 
-beforeAll(async () => {
-  env = await makePipelineEnv({}, { retryLimit: RETRY_LIMIT, retryDelay: 0, retryBackoff: false, expireInSeconds: 60 });
-  // Jobs left unstarted by earlier test files (uploads with no worker) would be fetched instead of ours.
-  await queueOf(env.ctx).boss.purgeQueue(ANALYSIS_QUEUE);
-  listener = new pg.Client({ connectionString: inject("databaseUrl") });
-  await listener.connect();
-  listener.on("notification", (n) => events.push(JSON.parse(n.payload!)));
-  await listener.query("listen barhound_events");
-});
-afterAll(async () => {
-  await listener?.end();
-  await env?.close();
-});
+const pipe = pipelineWithoutWorker({ retryLimit: RETRY_LIMIT, retryDelay: 0, retryBackoff: false, expireInSeconds: 60 });
 
-const capture = (id: number) => env.db("captures").where({ id }).first();
+const capture = (id: number) => pipe.env.db("captures").where({ id }).first();
 const jobOf = async (captureId: number) =>
-  (await env.db.raw(`select state::text as state, retry_count, output from pgboss.job where name = ? and data->>'captureId' = ?`, [ANALYSIS_QUEUE, String(captureId)])).rows as {
+  (await pipe.env.db.raw(`select state::text as state, retry_count, output from pgboss.job where name = ? and data->>'captureId' = ?`, [ANALYSIS_QUEUE, String(captureId)])).rows as {
     state: string;
     retry_count: number;
     output: { outcome?: string; message?: string } | null;
@@ -42,14 +25,14 @@ const jobOf = async (captureId: number) =>
 
 /** One pass of the worker's fetch loop (workers/worker.ts) over the next job, with the given thread work. */
 async function attempt(captureId: number, runTask: JobDeps["runTask"]) {
-  const boss = queueOf(env.ctx).boss;
+  const boss = queueOf(pipe.env.ctx).boss;
   const [job] = await waitFor(async () => {
     const got = await boss.fetch<AnalysisJobData>(ANALYSIS_QUEUE, { batchSize: 1, includeMetadata: true });
     return got.length ? got : null;
   }, 5000, "the job");
   expect(job.data.captureId).toBe(captureId);
   try {
-    const outcome = await runAnalysisJob({ db: env.db, blob: blobStoreOf(env.ctx), runTask }, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
+    const outcome = await runAnalysisJob({ db: pipe.env.db, blob: blobStoreOf(pipe.env.ctx), runTask }, job.data, { retryCount: job.retryCount, retryLimit: job.retryLimit });
     await boss.complete(ANALYSIS_QUEUE, job.id, { outcome });
     return { retryCount: job.retryCount, outcome, thrown: null };
   } catch (err) {
@@ -70,13 +53,13 @@ function failing(times: number, message: string) {
 }
 
 async function store(assetId: number, seed: number) {
-  return (await storeCaptureAndQueue(env.ctx, { assetId, takenAt: new Date(), source: "upload", fileName: `retry-${seed}.csv`, format: "csv", bytes: captureFile({ seed }) })).id;
+  return (await storeCaptureAndQueue(pipe.env.ctx, { assetId, takenAt: new Date(), source: "upload", fileName: `retry-${seed}.csv`, format: "csv", bytes: captureFile({ seed }) })).id;
 }
-const statusesOf = (id: number) => events.filter((e) => e.event === "capture:status" && e.payload.id === id).map((e) => e.payload.status);
+const statusesOf = (id: number) => pipe.events.filter((e) => e.event === "capture:status" && e.payload.id === id).map((e) => e.payload.status);
 
 describe("analysis job retries", () => {
   it("fails transiently once, is retried by pg-boss and ends analysed once", async () => {
-    const { asset } = await makeMotor(env.db);
+    const { asset } = await makeMotor(pipe.env.db);
     const id = await store(asset.id, 41);
     const runTask = failing(1, "analysis thread exited unexpectedly");
 
@@ -89,14 +72,14 @@ describe("analysis job retries", () => {
     const second = await attempt(id, runTask);
     expect(second).toEqual({ retryCount: 1, outcome: "analysed", thrown: null });
     expect(await capture(id)).toMatchObject({ status: "analysed", attempts: 2, error: null });
-    expect(await env.db("analyses").where({ capture_id: id })).toHaveLength(1);
+    expect(await pipe.env.db("analyses").where({ capture_id: id })).toHaveLength(1);
     expect(await jobOf(id)).toEqual([expect.objectContaining({ state: "completed", retry_count: 1, output: { outcome: "analysed" } })]);
     await waitFor(async () => statusesOf(id).includes("analysed"), 5000, "capture:status analysed");
     expect(statusesOf(id)).toEqual(["queued", "analysing", "queued", "analysing", "analysed"]);
   });
 
   it("fails transiently on every attempt: retried up to the limit, then failed with the reason", async () => {
-    const { asset } = await makeMotor(env.db);
+    const { asset } = await makeMotor(pipe.env.db);
     const id = await store(asset.id, 42);
     const runTask = failing(Infinity, "blob store timed out");
 
@@ -107,12 +90,12 @@ describe("analysis job retries", () => {
     // The last attempt marks the capture failed with the reason itself, and the job completes (nothing left to retry).
     expect(await attempt(id, runTask)).toEqual({ retryCount: RETRY_LIMIT, outcome: "failed", thrown: null });
     expect(await capture(id)).toMatchObject({ status: "failed", attempts: RETRY_LIMIT + 1, error: "blob store timed out" });
-    expect(await env.db("analyses").where({ capture_id: id })).toHaveLength(0);
+    expect(await pipe.env.db("analyses").where({ capture_id: id })).toHaveLength(0);
     expect(await jobOf(id)).toEqual([expect.objectContaining({ state: "completed", retry_count: RETRY_LIMIT, output: { outcome: "failed" } })]);
     await waitFor(async () => statusesOf(id).includes("failed"), 5000, "capture:status failed");
     expect(statusesOf(id)).toEqual(["queued", "analysing", "queued", "analysing", "queued", "analysing", "failed"]);
-    expect(events.find((e) => e.payload.id === id && e.payload.status === "failed")!.payload).toEqual({ id, assetId: asset.id, status: "failed", error: "blob store timed out" });
+    expect(pipe.events.find((e) => e.payload.id === id && e.payload.status === "failed")!.payload).toEqual({ id, assetId: asset.id, status: "failed", error: "blob store timed out" });
     // No more jobs for it: nothing will pick it up again until someone re-queues it.
-    expect(await queueOf(env.ctx).boss.fetch(ANALYSIS_QUEUE, { batchSize: 1 })).toEqual([]);
+    expect(await queueOf(pipe.env.ctx).boss.fetch(ANALYSIS_QUEUE, { batchSize: 1 })).toEqual([]);
   });
 });

@@ -9,7 +9,9 @@ import type { Knex } from "knex";
 import { makeTestEnv, type TestEnv } from "./context.ts";
 import type { Config } from "../../server/config.ts";
 import { installPipeline } from "../../server/captures/pipeline.ts";
-import type { JobPolicy } from "../../server/queue.ts";
+import { ANALYSIS_QUEUE, queueOf, type JobPolicy } from "../../server/queue.ts";
+import { EVENTS_CHANNEL } from "../../server/events.ts";
+import pg from "pg";
 import { synthCapture, type SynthOptions } from "../../src/engine/synth.ts";
 import { writeCsv, writeWav } from "../../src/engine/parse/index.ts";
 
@@ -138,6 +140,31 @@ export function pipelineWithWorker(policy: Partial<JobPolicy> = { expireInSecond
   }, 60_000);
   afterAll(async () => {
     await state.worker?.stop("SIGKILL");
+    await state.env?.close();
+  });
+  return state;
+}
+
+/**
+ * A pipeline app with no worker (the test plays the worker), its analysis queue emptied of jobs earlier test files
+ * left unstarted, and a listener that collects every event published on the events channel. Read `.env` and
+ * `.events` inside the tests.
+ */
+export function pipelineWithoutWorker(policy: Partial<JobPolicy>): {
+  readonly env: PipelineEnv;
+  readonly events: { event: string; payload: Record<string, unknown> }[];
+} {
+  const state = { events: [] } as unknown as { env: PipelineEnv; events: { event: string; payload: Record<string, unknown> }[]; listener: pg.Client };
+  beforeAll(async () => {
+    state.env = await makePipelineEnv({}, policy);
+    await queueOf(state.env.ctx).boss.purgeQueue(ANALYSIS_QUEUE);
+    state.listener = new pg.Client({ connectionString: inject("databaseUrl") });
+    await state.listener.connect();
+    state.listener.on("notification", (n) => state.events.push(JSON.parse(n.payload!)));
+    await state.listener.query(`listen ${EVENTS_CHANNEL}`);
+  });
+  afterAll(async () => {
+    await state.listener?.end();
     await state.env?.close();
   });
   return state;
