@@ -28,7 +28,8 @@ import {
   type NameplateForModel,
   type ParamName,
 } from "../../src/engine/motor-model/index.ts";
-import type { AssetMotorModelBody, ModelOperatingPoint } from "../../src/shared/schemas/motor-model.ts";
+import type { AssetMotorModelBody } from "../../src/shared/schemas/motor-model.ts";
+import type { ModelOperatingPoint } from "../../src/engine/motor-model/types.ts";
 
 /** Where one circuit value came from, as the motor page names it. */
 export type ValueSource = "nameplate estimate" | "no-load test" | "locked-rotor test" | "entered";

@@ -82,3 +82,25 @@ export class MotorModelError extends Error {
     this.name = "MotorModelError";
   }
 }
+
+/** GET /api/assets/:id/motor-model: an analysed capture on the model, measured current beside the model's,
+ *  model-based load beside the slip method's (server/captures/motor-model.ts builds it, the motor page draws it). */
+export interface ModelOperatingPoint {
+  takenAt: string;
+  captureId: number;
+  analysisId: number;
+  slip: number;
+  /** Speed at this slip on the curves' frequency (the model's), for placing the point. */
+  rpm: number;
+  /** Measured supply frequency, Hz. */
+  supplyHz: number | null;
+  torqueNm: number | null;
+  /** Measured line current (A, CT ratio and channel unit applied); null when the capture has no current channel. */
+  currentA: number | null;
+  /** The model's line current at this slip, A. */
+  modelCurrentA: number | null;
+  currentRatio: number | null;
+  loadPct: number | null;
+  slipMethodLoadPct: number | null;
+  flags: ModelFlag[];
+}

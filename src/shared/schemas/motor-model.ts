@@ -1,29 +1,6 @@
 // The motor-model calculator: the request bodies of POST /api/motor-model/evaluate, /estimate and /from-tests.
 // All numbers are JSON numbers here; the calculator form turns its text inputs into numbers before these rules.
 import { z } from "zod";
-import type { ModelFlag } from "../../engine/motor-model/types.ts";
-
-/** GET /api/assets/:id/motor-model: an analysed capture on the model, measured current beside the model's,
- *  model-based load beside the slip method's (server/captures/motor-model.ts builds it, the motor page draws it). */
-export interface ModelOperatingPoint {
-  takenAt: string;
-  captureId: number;
-  analysisId: number;
-  slip: number;
-  /** Speed at this slip on the curves' frequency (the model's), for placing the point. */
-  rpm: number;
-  /** Measured supply frequency, Hz. */
-  supplyHz: number | null;
-  torqueNm: number | null;
-  /** Measured line current (A, CT ratio and channel unit applied); null when the capture has no current channel. */
-  currentA: number | null;
-  /** The model's line current at this slip, A. */
-  modelCurrentA: number | null;
-  currentRatio: number | null;
-  loadPct: number | null;
-  slipMethodLoadPct: number | null;
-  flags: ModelFlag[];
-}
 
 const capitalised = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
 /** A number, with "Enter …" when it is missing and "… must be a number" when it is something else. */

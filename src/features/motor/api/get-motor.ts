@@ -2,8 +2,8 @@ import { queryOptions, useQuery } from "@tanstack/react-query";
 import { apiGet, type Paged } from "../../../lib/api.ts";
 import type { AssetDetail, Capture, CaptureDetail, Finding, Inspection } from "../../../lib/contracts.ts";
 import type { MotorCurves, KeyPoints } from "../../../engine/motor-model/index.ts";
-import type { ModelFlag, MotorModelInput } from "../../../engine/motor-model/types.ts";
-import type { AssetMotorModelBody, ModelOperatingPoint } from "../../../shared/schemas/motor-model.ts";
+import type { ModelFlag, ModelOperatingPoint, MotorModelInput } from "../../../engine/motor-model/types.ts";
+import type { AssetMotorModelBody } from "../../../shared/schemas/motor-model.ts";
 import { motorKeys } from "./keys.ts";
 
 export const motorQueryOptions = (id: number) =>
