@@ -14,11 +14,24 @@ export function captureBase(db: Knex) {
   return db("captures as c")
     .join("assets as a", "a.id", "c.asset_id")
     .join("areas as ar", "ar.id", "a.area_id")
-    .leftJoin("users as u", "u.id", "c.taken_by_user_id");
+    .leftJoin("users as u", "u.id", "c.taken_by_user_id")
+    .leftJoin("analyses as an", (j) => j.on("an.capture_id", "c.id").andOnVal("an.is_current", true));
 }
 
 export const captureSelect = (q: Knex.QueryBuilder) =>
-  q.select("c.*", "a.tag as asset_tag", "a.name as asset_name", "ar.site_id as site_id", "u.name as taken_by_name");
+  q.select(
+    "c.*",
+    "a.tag as asset_tag",
+    "a.name as asset_name",
+    "ar.site_id as site_id",
+    "u.name as taken_by_name",
+    "an.id as current_analysis_id",
+    "an.rotor_grade as an_rotor_grade",
+    "an.rotor_assessable as an_rotor_assessable",
+    "an.sideband_db as an_sideband_db",
+    "an.load_pct as an_load_pct",
+    "an.vibration_zone as an_vibration_zone",
+  );
 
 export function captureOut(r: Record<string, any>) {
   return {
@@ -45,6 +58,10 @@ export function captureOut(r: Record<string, any>) {
     createdAt: r.created_at,
     queuedAt: r.queued_at,
     analysedAt: r.analysed_at,
+    // The current analysis's headline readings, for lists (the full result is only on GET /captures/:id).
+    readings: r.current_analysis_id
+      ? { rotorGrade: r.an_rotor_grade, rotorAssessable: r.an_rotor_assessable, sidebandDb: r.an_sideband_db, loadPct: r.an_load_pct, vibrationZone: r.an_vibration_zone }
+      : null,
   };
 }
 

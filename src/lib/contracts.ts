@@ -141,6 +141,8 @@ export interface Capture {
   createdAt: string;
   queuedAt: string | null;
   analysedAt: string | null;
+  /** The current analysis's headline readings, or null before one exists. */
+  readings: { rotorGrade: GradeValue | null; rotorAssessable: boolean; sidebandDb: number | null; loadPct: number | null; vibrationZone: string | null } | null;
   /** Only on GET /captures/:id (the list leaves it out): the current analysis, or null before one exists. */
   analysis?: CaptureAnalysis | null;
   /** Only on GET /captures/:id: every analysis version of the capture. */

@@ -64,6 +64,10 @@ describe("capture pipeline", () => {
     expect(trend[0].sidebandDb).toBeGreaterThan(54);
     const asset = (await agent.get(`/api/assets/${assetId}`)).body;
     expect(asset.latest).toMatchObject({ captureId: firstId, rotorGrade: "R1" });
+    // the list carries the current analysis's headline readings (the motor page's capture history shows them)
+    const listed = (await agent.get("/api/captures").query({ assetId })).body;
+    expect(listed.total).toBe(1);
+    expect(listed.items[0].readings).toMatchObject({ rotorGrade: "R1", rotorAssessable: true, sidebandDb: trend[0].sidebandDb, loadPct: trend[0].loadPct });
     expect(await env.db("findings").where({ asset_id: assetId }).count({ n: "*" })).toEqual([{ n: "0" }]);
     const statuses = events.filter((e) => e.event === "capture:status" && e.payload.id === firstId).map((e) => e.payload.status);
     expect(statuses).toEqual(expect.arrayContaining(["analysing", "analysed"]));

@@ -236,9 +236,16 @@ function CaptureHistory({ assetId }: { assetId: number }) {
   const [page, setPage] = useState(1);
   const q = useMotorCaptureHistory(assetId, page);
   const columns: Column<Capture>[] = [
-    { id: "taken", header: "Taken", cell: (c) => <Link to={`/captures/${c.id}`}>{formatDateTime(c.takenAt ?? c.createdAt)}</Link> },
-    { id: "file", header: "File", cell: (c) => <span className="text-ink-muted">{c.fileName ?? c.source}</span>, hideBelow: "md" },
-    { id: "channels", header: "Channels", cell: (c) => <span className="num text-caption">{c.channels.map((ch) => ch.name).join(", ")}</span>, hideBelow: "lg" },
+    { id: "taken", header: "Taken", cell: (c) => <Link className="whitespace-nowrap" to={`/captures/${c.id}`} title={c.channels.map((ch) => ch.name).join(", ")}>{formatDateTime(c.takenAt ?? c.createdAt)}</Link> },
+    {
+      id: "rotor",
+      header: "Rotor",
+      cell: (c) => (c.readings ? <GradeBadge compact grade={c.readings.rotorGrade} assessable={c.readings.rotorAssessable} /> : <span className="text-ink-faint">—</span>),
+    },
+    { id: "sideband", header: "Sideband", numeric: true, cell: (c) => <Figure value={c.readings?.sidebandDb ?? null} unit="dB" digits={1} />, hideBelow: "md" },
+    { id: "load", header: "Load", numeric: true, cell: (c) => (c.readings?.loadPct != null ? <Figure value={c.readings.loadPct} unit="%" digits={0} /> : <span className="text-ink-faint">—</span>), hideBelow: "md" },
+    { id: "zone", header: "Zone", cell: (c) => <ZoneBadge zone={c.readings?.vibrationZone ?? null} />, hideBelow: "md" },
+    { id: "file", header: "File", cell: (c) => <span className="break-all text-caption text-ink-muted">{c.fileName ?? c.source}</span>, hideBelow: "lg" },
     { id: "duration", header: "Duration", numeric: true, cell: (c) => <Figure value={c.durationS} unit="s" digits={1} /> },
     { id: "status", header: "Status", cell: (c) => <span className={c.status === "failed" ? "text-danger" : ""}>{STATUS[c.status] ?? c.status}</span> },
   ];
