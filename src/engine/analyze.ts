@@ -300,6 +300,14 @@ export function analyzeCapture(capture: Capture, nameplate: Nameplate, options: 
       vibMain = va;
     }
   }
+  // ISO 20816-3 covers machines above 15 kW running at 120–30 000 r/min (domain.md §6): outside that the zone is
+  // only a guide.
+  if (vibration) {
+    const kw = nameplate.ratedKw;
+    const rpmNow = slip !== null && fz ? rpmFromSlip(fz, poles, slip) : nameplate.ratedRpm;
+    const outside = kw !== undefined && kw <= 15 ? `rated ${kw} kW (the standard starts above 15 kW)` : rpmNow < 120 || rpmNow > 30_000 ? `${rpmNow.toFixed(0)} rpm (the standard covers 120–30 000 rpm)` : null;
+    if (outside) quality.push({ code: "iso-scope", severity: "info", message: `ISO 20816-3 does not cover this machine: ${outside}. The vibration zone is a guide only.` });
+  }
 
   // ---- markers ----------------------------------------------------------------------------------------------
   if (primary && supply) {

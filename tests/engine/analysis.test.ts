@@ -197,6 +197,14 @@ describe("vibration", () => {
     const names = result.markers.filter((m) => m.family === "vibration").map((m) => m.name);
     expect(names).toEqual(expect.arrayContaining(["1×", "2×", "2×LF", "1× − Fp", "1× + Fp"]));
   });
+  it("says when ISO 20816-3 does not cover the machine: 15 kW and under (ISO 20816-3:2022 title, domain.md §6)", () => {
+    const { capture, nameplate } = synthCapture({ poles: 4, supplyHz: 50, slip: 0.02, durationS: 10, vibration: { oneXMmS: 2.0 }, seed: 73 });
+    const small = analyzeCapture(capture, { ...nameplate, ratedKw: 7.5 });
+    expect(small.vibration).not.toBeNull();
+    expect(small.quality.find((q) => q.code === "iso-scope")).toMatchObject({ severity: "info", message: expect.stringMatching(/rated 7\.5 kW.*above 15 kW/) });
+    expect(codes(analyzeCapture(capture, { ...nameplate, ratedKw: 55 }))).not.toContain("iso-scope");
+    expect(codes(analyzeCapture(capture, { ...nameplate, ratedKw: undefined }))).not.toContain("iso-scope"); // unknown power: no claim
+  });
   it("in g and at ≤ 600 rpm uses the 2–1000 Hz band", () => {
     const { result, truth } = run({ poles: 12, supplyHz: 50, slip: 0.03, durationS: 20, vibration: { unit: "g", oneXMmS: 3 }, seed: 72 });
     expect(result.vibration!.bandHz).toEqual([2, 1000]);
